@@ -1,0 +1,100 @@
+//! The two typefaces shipped in `fonts/` (DejaVu Sans, Bitstream Vera licence):
+//! glyph lookup and advance widths, shared by layout (to measure) and the PDF
+//! renderer (to embed).
+
+use std::sync::OnceLock;
+
+use crate::scene::{MM_PER_PT, Weight};
+
+static REGULAR: &[u8] = include_bytes!("../fonts/DejaVuSans.ttf");
+static BOLD: &[u8] = include_bytes!("../fonts/DejaVuSans-Bold.ttf");
+
+/// The raw TrueType bytes of a face.
+pub fn font_bytes(weight: Weight) -> &'static [u8] {
+    match weight {
+        Weight::Regular => REGULAR,
+        Weight::Bold => BOLD,
+    }
+}
+
+/// The PostScript-style family name the SVG renderer asks for.
+pub const FAMILY: &str = "DejaVu Sans";
+
+/// The parsed face. The shipped files are known-good, so a parse failure is a
+/// build defect and is reported by the `shipped_fonts_parse` test.
+pub fn face(weight: Weight) -> &'static ttf_parser::Face<'static> {
+    static R: OnceLock<ttf_parser::Face<'static>> = OnceLock::new();
+    static B: OnceLock<ttf_parser::Face<'static>> = OnceLock::new();
+    let cell = match weight {
+        Weight::Regular => &R,
+        Weight::Bold => &B,
+    };
+    cell.get_or_init(|| {
+        #[expect(clippy::expect_used, reason = "the font is compiled in and checked by a test")]
+        ttf_parser::Face::parse(font_bytes(weight), 0).expect("shipped font parses")
+    })
+}
+
+/// Glyph id of `ch` in the face, `None` if the font cannot show it.
+pub fn glyph_id(weight: Weight, ch: char) -> Option<u16> {
+    face(weight).glyph_index(ch).map(|g| g.0)
+}
+
+/// Characters of `text` that the shipped font cannot show, in order of first appearance.
+pub fn unsupported_chars(text: &str) -> Vec<char> {
+    let mut out = Vec::new();
+    for ch in text.chars() {
+        if glyph_id(Weight::Regular, ch).is_none() && !out.contains(&ch) {
+            out.push(ch);
+        }
+    }
+    out
+}
+
+/// Advance width of glyph `gid` in font units.
+pub fn advance_units(weight: Weight, gid: u16) -> u16 {
+    face(weight).glyph_hor_advance(ttf_parser::GlyphId(gid)).unwrap_or(0)
+}
+
+/// Font units per em.
+pub fn units_per_em(weight: Weight) -> u16 {
+    face(weight).units_per_em()
+}
+
+/// Width of `text` set at `size_pt`, in millimetres (no kerning; characters the
+/// font lacks count as the width of the missing-glyph box).
+pub fn text_width_mm(text: &str, size_pt: f64, weight: Weight) -> f64 {
+    let upem = f64::from(units_per_em(weight));
+    let units: f64 = text
+        .chars()
+        .map(|ch| f64::from(advance_units(weight, glyph_id(weight, ch).unwrap_or(0))))
+        .sum();
+    units / upem * size_pt * MM_PER_PT
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn shipped_fonts_parse() {
+        for w in [Weight::Regular, Weight::Bold] {
+            assert!(ttf_parser::Face::parse(font_bytes(w), 0).is_ok());
+        }
+    }
+
+    #[test]
+    fn greek_arrows_and_accents_are_covered() {
+        assert!(unsupported_chars("θ μ → ± ° é ü ł Ω").is_empty());
+        assert_eq!(unsupported_chars("a漢b"), vec!['漢']);
+    }
+
+    #[test]
+    fn ten_point_em_is_about_3_5_mm() {
+        // One em at 10 pt is 10/72 in = 3.5278 mm (ISO 32000-1 point).
+        // DejaVu Sans "M" advance is 1767/2048 em: its hmtx table as read by
+        // Python fontTools 4.x (`TTFont('DejaVuSans.ttf')['hmtx']['M']`).
+        let w = text_width_mm("M", 10.0, Weight::Regular);
+        assert!((w - 3.5278 * 1767.0 / 2048.0).abs() < 1e-3, "{w}");
+    }
+}

@@ -1,0 +1,1 @@
+//! Renderers: `&Scene` in, bytes out (SVG and PDF).
