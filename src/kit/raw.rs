@@ -1,0 +1,89 @@
+//! The TOML mirror of a kit file: serde structs that keep every field's span.
+
+use std::collections::BTreeMap;
+
+use serde::Deserialize;
+use toml::Spanned;
+
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawKit {
+    pub title: Option<Spanned<String>>,
+    #[serde(default)]
+    pub materials: BTreeMap<String, Spanned<RawMaterial>>,
+    pub ray_box: Option<Spanned<RawRayBox>>,
+    #[serde(default)]
+    pub pieces: Vec<Spanned<RawPiece>>,
+    #[serde(default)]
+    pub sheets: Vec<Spanned<RawSheet>>,
+    pub paper: Option<Spanned<RawPaper>>,
+    pub class: Option<Spanned<RawClass>>,
+}
+
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawMaterial {
+    pub index: Spanned<f64>,
+    #[expect(dead_code, reason = "accepted for the teacher's own notes; not printed")]
+    pub label: Option<Spanned<String>>,
+}
+
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawRayBox {
+    pub rays: Option<Spanned<i64>>,
+    pub spacing_mm: Option<Spanned<f64>>,
+    pub ray_width_mm: Option<Spanned<f64>>,
+}
+
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawPiece {
+    pub id: Spanned<String>,
+    pub label: Option<Spanned<String>>,
+    pub material: Spanned<String>,
+    pub front: Spanned<toml::Value>,
+    pub back: Spanned<toml::Value>,
+    pub thickness_mm: Spanned<f64>,
+    pub height_mm: Spanned<f64>,
+}
+
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawSheet {
+    pub kind: Spanned<String>,
+    pub piece: Spanned<String>,
+    pub enter: Option<Spanned<String>>,
+    pub heights_mm: Option<Spanned<Vec<Spanned<f64>>>>,
+    pub vary_entry: Option<Spanned<bool>>,
+}
+
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawPaper {
+    pub size: Option<Spanned<String>>,
+    pub width_mm: Option<Spanned<f64>>,
+    pub height_mm: Option<Spanned<f64>>,
+    pub orientation: Option<Spanned<String>>,
+    pub margin_mm: Option<Spanned<f64>>,
+}
+
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawClass {
+    pub groups: Option<Spanned<i64>>,
+    pub names: Option<Spanned<Vec<Spanned<String>>>>,
+    pub seed: Option<Spanned<i64>>,
+    pub grid_mm: Option<Spanned<f64>>,
+}
+
+/// Field names each table accepts, for "did you mean" hints.
+pub(super) const TABLE_FIELDS: &[(&str, &[&str])] = &[
+    ("", &["title", "materials", "ray_box", "pieces", "sheets", "paper", "class"]),
+    ("materials", &["index", "label"]),
+    ("ray_box", &["rays", "spacing_mm", "ray_width_mm"]),
+    ("pieces", &["id", "label", "material", "front", "back", "thickness_mm", "height_mm"]),
+    ("sheets", &["kind", "piece", "enter", "heights_mm", "vary_entry"]),
+    ("paper", &["size", "width_mm", "height_mm", "orientation", "margin_mm"]),
+    ("class", &["groups", "names", "seed", "grid_mm"]),
+];

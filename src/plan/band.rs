@@ -1,0 +1,276 @@
+//! The safe band of guide heights: where a single guide ray gives a
+//! measurement worth making, and why the band ends where it ends.
+
+use crate::optics::{Boundary, Outcome, Outline, trace_parallel};
+
+/// Criteria for a worthwhile guide height (DESIGN.md, "Where the rays should go").
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct BandRules {
+    /// Width of one ray on paper, mm.
+    pub ray_width_mm: f64,
+    /// How far inside the critical angle the ray must stay at the exit face, degrees.
+    pub critical_margin_deg: f64,
+    /// Largest movement of the crossing per millimetre of guide height.
+    pub max_sensitivity: f64,
+    /// Largest along-axis uncertainty, as a fraction of the distance from the
+    /// exit vertex to the crossing.
+    pub max_relative_uncertainty: f64,
+    /// Room on the printed page after the exit vertex, mm (`f64::INFINITY`: no limit).
+    pub room_after_exit_mm: f64,
+    /// Room on the printed page before the entry vertex, mm.
+    pub room_before_entry_mm: f64,
+}
+
+impl BandRules {
+    /// The defaults for a ray box with rays `ray_width_mm` wide.
+    ///
+    /// Critical margin 4°, sensitivity 12 mm/mm and 20 % relative uncertainty
+    /// are our choices (common practice, no source): they keep a ±0.5 mm
+    /// placement error below a few millimetres of crossing movement.
+    pub fn for_ray_width(ray_width_mm: f64) -> BandRules {
+        BandRules {
+            ray_width_mm,
+            critical_margin_deg: 4.0,
+            max_sensitivity: 12.0,
+            max_relative_uncertainty: 0.20,
+            room_after_exit_mm: f64::INFINITY,
+            room_before_entry_mm: f64::INFINITY,
+        }
+    }
+
+    /// How far across the ray a student locates its centre, mm: half the ray
+    /// width, and never less than 1 mm (DESIGN.md: about ±1–2 mm, *memory*).
+    pub fn across_error_mm(&self) -> f64 {
+        (self.ray_width_mm / 2.0).max(1.0)
+    }
+}
+
+/// Why a height is not in the band.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Limit {
+    /// Within one ray width of the axis.
+    NearAxis,
+    /// The ray meets the axis so shallowly that the along-axis error is large.
+    Shallow,
+    /// The crossing falls beyond the printed page.
+    OffPage,
+    /// The ray's edge comes within a ray width of the piece's edge.
+    EdgeClearance,
+    /// Total internal reflection, or the ray leaves somewhere other than the exit face.
+    WrongPath,
+    /// Within the critical-angle margin at the exit face.
+    CriticalMargin,
+    /// The crossing moves too fast with height (near-grazing exit).
+    Sensitive,
+}
+
+/// The band of |height| where a guide ray is worth drawing (the same on both
+/// sides of the axis, since the pieces are symmetric).
+#[derive(Clone, Debug, PartialEq)]
+pub struct SafeBand {
+    /// Lower end, mm from the axis.
+    pub min_mm: f64,
+    /// Upper end, mm from the axis.
+    pub max_mm: f64,
+    /// What stops the band going lower.
+    pub min_limit: Limit,
+    /// What stops it going higher.
+    pub max_limit: Limit,
+    /// Plain words for the lower end.
+    pub min_reason: String,
+    /// Plain words for the upper end.
+    pub max_reason: String,
+}
+
+impl SafeBand {
+    /// Whether |h| lies in the band.
+    pub fn contains(&self, h: f64) -> bool {
+        (self.min_mm - 1e-9..=self.max_mm + 1e-9).contains(&h.abs())
+    }
+
+    /// Width of the band, mm.
+    pub fn width(&self) -> f64 {
+        self.max_mm - self.min_mm
+    }
+}
+
+/// Crossing position (from the entry vertex) for a height, if the ray takes the intended path.
+fn crossing(outline: &Outline, h: f64) -> Option<f64> {
+    let tr = trace_parallel(outline, h, 10.0);
+    match (tr.outcome, tr.exit) {
+        (Outcome::Crosses { x_mm } | Outcome::Virtual { x_mm }, Some((_, Boundary::Exit))) => Some(x_mm),
+        _ => None,
+    }
+}
+
+/// The first criterion `h` (> 0) fails, or `None` if it passes all.
+pub fn check_height(outline: &Outline, rules: &BandRules, h: f64) -> Option<Limit> {
+    let a = outline.a();
+    let w = rules.ray_width_mm;
+    if h < w {
+        return Some(Limit::NearAxis);
+    }
+    if h + w / 2.0 > a - w {
+        return Some(Limit::EdgeClearance);
+    }
+    let tr = trace_parallel(outline, h, 10.0);
+    let entered_front = tr.path.get(1).is_some_and(|p| (p.x - outline.entry_x(p.y)).abs() < 1e-6);
+    let (x, exit_point) = match (tr.outcome, tr.exit) {
+        (Outcome::Crosses { x_mm } | Outcome::Virtual { x_mm }, Some((p, Boundary::Exit))) if entered_front => (x_mm, p),
+        _ => return Some(Limit::WrongPath),
+    };
+    let crit = outline.piece.critical_angle_rad().to_degrees();
+    if tr.worst_inside_incidence_rad.to_degrees() > crit - rules.critical_margin_deg {
+        return Some(Limit::CriticalMargin);
+    }
+    let dh = 0.02;
+    match (crossing(outline, h - dh), crossing(outline, h + dh)) {
+        (Some(lo), Some(hi)) if ((hi - lo) / (2.0 * dh)).abs() <= rules.max_sensitivity => {}
+        _ => return Some(Limit::Sensitive),
+    }
+    let from_exit = (x - outline.t()).abs();
+    let tan_angle = (tr.exit_dir.y / tr.exit_dir.x).abs();
+    let along = rules.across_error_mm() / tan_angle.max(1e-12);
+    // Distance from where the ray leaves the piece to the crossing, along the axis.
+    let run = (x - exit_point.x).abs().max(from_exit);
+    if along > rules.max_relative_uncertainty * run {
+        return Some(Limit::Shallow);
+    }
+    if x > outline.t() + rules.room_after_exit_mm || x < -rules.room_before_entry_mm {
+        return Some(Limit::OffPage);
+    }
+    None
+}
+
+fn reason(limit: Limit, h: f64, lower: bool, outline: &Outline, rules: &BandRules) -> String {
+    let side = if lower { "below" } else { "above" };
+    let h = format!("{h:.1} mm");
+    match limit {
+        Limit::NearAxis => format!("{side} {h} the ray lies within one ray width ({} mm) of the axis", rules.ray_width_mm),
+        Limit::Shallow => format!(
+            "{side} {h} the ray meets the axis so shallowly that ±{:.1} mm across the ray becomes more than {:.0} % of the distance along the axis",
+            rules.across_error_mm(),
+            rules.max_relative_uncertainty * 100.0
+        ),
+        Limit::OffPage => format!("{side} {h} the crossing falls beyond the printed page"),
+        Limit::EdgeClearance => format!(
+            "{side} {h} the ray comes within one ray width of the piece's edge at {:.1} mm",
+            outline.a()
+        ),
+        Limit::WrongPath => format!("{side} {h} the ray is totally internally reflected or leaves through the wrong face"),
+        Limit::CriticalMargin => format!(
+            "{side} {h} the ray meets the exit face within {}° of the critical angle ({:.1}°)",
+            rules.critical_margin_deg,
+            outline.piece.critical_angle_rad().to_degrees()
+        ),
+        Limit::Sensitive => format!(
+            "{side} {h} the crossing moves more than {} mm per mm of height (near-grazing exit)",
+            rules.max_sensitivity
+        ),
+    }
+}
+
+/// Finds the safe band: scans |h| from 0 to the half-height in 0.05 mm steps,
+/// takes the widest run of passing heights (preferring the one containing a
+/// third of the half-height, where teachers place single rays — common
+/// practice, no source), and refines both ends by bisection to 0.001 mm.
+/// `None` when no height passes.
+pub fn safe_band(outline: &Outline, rules: &BandRules) -> Option<SafeBand> {
+    let a = outline.a();
+    let step = 0.05;
+    let n = (a / step).floor() as usize;
+    let ok: Vec<bool> = (0..=n).map(|i| check_height(outline, rules, i as f64 * step).is_none()).collect();
+    let mut runs: Vec<(usize, usize)> = Vec::new();
+    let mut i = 0;
+    while i <= n {
+        if ok[i] {
+            let start = i;
+            while i < n && ok[i + 1] {
+                i += 1;
+            }
+            runs.push((start, i));
+        }
+        i += 1;
+    }
+    let target = a / 3.0;
+    let (lo, hi) = runs.iter().copied().max_by(|&(s1, e1), &(s2, e2)| {
+        let c1 = (s1 as f64 * step..=e1 as f64 * step).contains(&target);
+        let c2 = (s2 as f64 * step..=e2 as f64 * step).contains(&target);
+        (c1, e1 - s1).cmp(&(c2, e2 - s2))
+    })?;
+    let refine = |mut good: f64, mut bad: f64| {
+        for _ in 0..40 {
+            let mid = 0.5 * (good + bad);
+            if check_height(outline, rules, mid).is_none() {
+                good = mid;
+            } else {
+                bad = mid;
+            }
+            if (good - bad).abs() < 1e-3 {
+                break;
+            }
+        }
+        (good, bad)
+    };
+    let (min, min_bad) = if lo == 0 { (0.0, 0.0) } else { refine(lo as f64 * step, (lo - 1) as f64 * step) };
+    let (max, max_bad) = if hi == n { (hi as f64 * step, a) } else { refine(hi as f64 * step, (hi + 1) as f64 * step) };
+    let min_limit = check_height(outline, rules, min_bad).unwrap_or(Limit::NearAxis);
+    let max_limit = check_height(outline, rules, max_bad.min(a)).unwrap_or(Limit::EdgeClearance);
+    Some(SafeBand {
+        min_mm: min,
+        max_mm: max,
+        min_limit,
+        max_limit,
+        min_reason: reason(min_limit, min, true, outline, rules),
+        max_reason: reason(max_limit, max, false, outline, rules),
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::optics::{Entry, Face, Piece};
+
+    fn half_disc(r: f64) -> Outline {
+        Outline::new(Piece::new(Face::Flat, Face::Convex { radius_mm: r }, r, 2.0 * r, 1.49).unwrap(), Entry::Front)
+    }
+
+    #[test]
+    fn half_disc_band_contains_a_quarter_to_a_third_and_stops_short_of_tir() {
+        // Common practice, no source: single guide rays at a quarter to a third
+        // of the half-height. The band must stop below R/n (DESIGN.md: TIR above R/n).
+        let r = 40.0;
+        let o = half_disc(r);
+        let band = safe_band(&o, &BandRules::for_ray_width(2.0)).unwrap();
+        assert!(band.contains(r / 4.0) && band.contains(r / 3.0), "{band:?}");
+        assert!(band.max_mm < r / 1.49, "{band:?}");
+        assert!(matches!(band.max_limit, Limit::CriticalMargin | Limit::Sensitive), "{band:?}");
+        assert!(band.max_reason.starts_with("above"));
+        assert!(band.min_reason.starts_with("below"));
+    }
+
+    #[test]
+    fn every_band_height_passes_and_just_outside_fails() {
+        let o = half_disc(30.0);
+        let rules = BandRules::for_ray_width(2.0);
+        let band = safe_band(&o, &rules).unwrap();
+        for k in 0..=20 {
+            let h = band.min_mm + band.width() * f64::from(k) / 20.0;
+            assert_eq!(check_height(&o, &rules, h), None, "h={h}");
+        }
+        assert!(check_height(&o, &rules, band.max_mm + 0.01).is_some());
+        assert!(check_height(&o, &rules, band.min_mm - 0.01).is_some());
+    }
+
+    #[test]
+    fn small_page_pushes_the_lower_end_up() {
+        // A weak lens: the paraxial crossing is far away; with 150 mm of room the
+        // low rays fall off the page and the band's lower end says so.
+        let p = Piece::new(Face::Flat, Face::Convex { radius_mm: 90.0 }, 12.0, 80.0, 1.49).unwrap();
+        let o = Outline::new(p, Entry::Front);
+        let mut rules = BandRules::for_ray_width(2.0);
+        rules.room_after_exit_mm = 170.0;
+        let band = safe_band(&o, &rules).unwrap();
+        assert_eq!(band.min_limit, Limit::OffPage, "{band:?}");
+    }
+}

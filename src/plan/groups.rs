@@ -1,0 +1,24 @@
+//! Groups of a class set: names and their checks.
+
+/// Longest group name printed on a sheet, characters.
+pub const MAX_NAME_CHARS: usize = 40;
+
+/// Why a group name cannot be used, or `None` if it can.
+pub fn group_name_problem(name: &str) -> Option<String> {
+    if name.is_empty() {
+        return Some("a group name is empty".into());
+    }
+    if name.chars().any(char::is_control) {
+        return Some(format!("group name {name:?} contains a control character (a newline or tab, say)"));
+    }
+    let n = name.chars().count();
+    if n > MAX_NAME_CHARS {
+        return Some(format!("group name is {n} characters long; at most {MAX_NAME_CHARS} fit on a sheet"));
+    }
+    let missing = crate::font::unsupported_chars(name);
+    if !missing.is_empty() {
+        let list: Vec<String> = missing.iter().map(|c| format!("'{c}' (U+{:04X})", *c as u32)).collect();
+        return Some(format!("group name {name:?} has characters the shipped font cannot print: {}", list.join(", ")));
+    }
+    None
+}

@@ -1,0 +1,301 @@
+//! Which rays each sheet shows, its safe band, per-group variants and the
+//! answers. Data, not drawing.
+
+mod band;
+mod groups;
+
+pub use band::{BandRules, Limit, SafeBand, check_height, safe_band};
+pub use groups::{group_name_problem};
+
+use crate::geom::Point;
+use crate::kit::{Kit, SheetKind, SheetSpec};
+use crate::optics::{Entry, Outcome, Outline, Paraxial, Trace, trace_parallel};
+use crate::paper::PaperSpec;
+
+/// Distances past the exit vertex at which students mark two points on each
+/// outgoing ray of a diverging piece, mm.
+pub const TRACE_BACK_MM: [f64; 2] = [25.0, 75.0];
+
+/// Space from the printable area's left edge to the piece for converging
+/// pieces: room for the ray-box mark and the start of the guide lines, mm.
+pub const LEAD_IN_MM: f64 = 45.0;
+
+/// Space left after the furthest crossing for its label, mm.
+pub const TAIL_MM: f64 = 12.0;
+
+/// One traced guide ray with its answers.
+#[derive(Clone, Debug, PartialEq)]
+pub struct RayAnswer {
+    /// Guide height, mm (+ above the axis).
+    pub height_mm: f64,
+    /// The exact trace.
+    pub trace: Trace,
+    /// Crossing (real or virtual) from the entry vertex, mm.
+    pub crossing_from_entry_mm: Option<f64>,
+    /// Crossing from the exit vertex, mm.
+    pub crossing_from_exit_mm: Option<f64>,
+    /// The face it left through: `front`, `back` or `edge`.
+    pub exit_face: Option<&'static str>,
+    /// Angle of the outgoing ray to the axis, degrees.
+    pub exit_angle_deg: Option<f64>,
+    /// Grading tolerance along the axis, ± mm: the across-ray error divided by
+    /// the tangent of the ray's angle to the axis.
+    pub tolerance_mm: Option<f64>,
+    /// For virtual crossings: the two trace-back points on the outgoing ray.
+    pub trace_back: Option<[Point; 2]>,
+    /// Whether the height lies in the safe band.
+    pub in_band: bool,
+}
+
+/// The extent of the setup in the sheet frame: what must be on paper.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Setup {
+    /// Leftmost x (the ray-box mark), mm.
+    pub x_min: f64,
+    /// Rightmost x (past the furthest crossing), mm.
+    pub x_max: f64,
+    /// Half-height of the drawing across the axis, mm.
+    pub y_half: f64,
+}
+
+/// Everything one sheet (and its key) shows.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SheetPlan {
+    /// Position in the kit's sheet list, 1-based.
+    pub number: usize,
+    /// Sheet kind.
+    pub kind: SheetKind,
+    /// The piece's id.
+    pub piece_id: String,
+    /// The piece's longer name, if any.
+    pub piece_label: Option<String>,
+    /// Which face the light meets first.
+    pub entry: Entry,
+    /// The piece placed for that side.
+    pub outline: Outline,
+    /// Paraxial values for that side.
+    pub paraxial: Paraxial,
+    /// The safe band (None: no height qualifies).
+    pub band: Option<SafeBand>,
+    /// The guide rays and their answers.
+    pub rays: Vec<RayAnswer>,
+    /// The rules used.
+    pub rules: BandRules,
+    /// Where things sit in the sheet frame.
+    pub setup: Setup,
+    /// The group, for class sets.
+    pub group: Option<String>,
+    /// The variant code.
+    pub variant: Option<String>,
+    /// Things the teacher should know.
+    pub warnings: Vec<String>,
+}
+
+impl SheetPlan {
+    /// Whether the piece diverges light entering from this side.
+    pub fn is_diverging(&self) -> bool {
+        self.paraxial.efl_mm().is_some_and(|f| f < 0.0)
+    }
+}
+
+/// Band rules for a sheet on this paper: the page's printable length along the
+/// axis (the long side in landscape) bounds where crossings may fall.
+pub fn rules_for(kit: &Kit, paper: &PaperSpec, outline: &Outline, lead_in_mm: f64) -> BandRules {
+    let mut rules = BandRules::for_ray_width(kit.ray_box.ray_width_mm);
+    let (page_w, _) = paper.page_mm();
+    let printable = page_w - 2.0 * paper.margin_mm;
+    let (x0, _) = outline.x_range();
+    let left = x0 - lead_in_mm;
+    rules.room_after_exit_mm = left + printable - outline.t() - TAIL_MM;
+    rules.room_before_entry_mm = -left - 5.0;
+    rules
+}
+
+fn lead_in_for(paraxial: &Paraxial, paper: &PaperSpec) -> f64 {
+    let (page_w, _) = paper.page_mm();
+    let printable = page_w - 2.0 * paper.margin_mm;
+    match paraxial.rear_focus_x() {
+        Some(x) if x < 0.0 => (-x + 25.0).clamp(LEAD_IN_MM, printable * 0.6),
+        _ => LEAD_IN_MM,
+    }
+}
+
+/// Rounds to the nearest multiple of `grid`.
+pub fn to_grid(v: f64, grid: f64) -> f64 {
+    (v / grid).round() * grid
+}
+
+/// Default guide heights for a sheet with none given.
+/// Curved-face: ±h at a third of the half-height (kept inside the band, on a
+/// 0.5 mm grid), plus one ray high in the band to show spherical aberration.
+/// Focal: the ray box's rays, centred on the axis.
+pub fn default_heights(kind: SheetKind, band: Option<&SafeBand>, kit: &Kit, a: f64) -> Vec<f64> {
+    match kind {
+        SheetKind::Focal => {
+            let n = kit.ray_box.rays;
+            (0..n).map(|i| (f64::from(i) - f64::from(n - 1) / 2.0) * kit.ray_box.spacing_mm).rev().collect()
+        }
+        SheetKind::CurvedFace => {
+            let Some(b) = band else { return vec![to_grid(a / 3.0, 0.5), -to_grid(a / 3.0, 0.5)] };
+            let inside = |h: f64| h.clamp((b.min_mm / 0.5).ceil() * 0.5, (b.max_mm / 0.5).floor() * 0.5);
+            let low = inside(to_grid(a / 3.0, 0.5));
+            let high = inside(((b.min_mm + 0.9 * b.width()) / 0.5).floor() * 0.5);
+            let mut out = vec![low, -low];
+            if high - low >= 2.0 * kit.ray_box.ray_width_mm {
+                out.insert(0, high);
+            }
+            out
+        }
+    }
+}
+
+/// Traces one guide height and works out its answers.
+pub fn answer_ray(outline: &Outline, rules: &BandRules, band: Option<&SafeBand>, h: f64) -> RayAnswer {
+    let trace = trace_parallel(outline, h, 10.0);
+    let t = outline.t();
+    let x = trace.outcome.crossing_x();
+    let angle = (trace.exit.is_some() && trace.exit_dir.x != 0.0)
+        .then(|| (trace.exit_dir.y / trace.exit_dir.x).abs().atan().to_degrees());
+    let tolerance = match (x, angle) {
+        (Some(_), Some(a)) if a > 1e-6 => Some(rules.across_error_mm() / a.to_radians().tan()),
+        _ => None,
+    };
+    let trace_back = match (trace.outcome, trace.exit) {
+        (Outcome::Virtual { .. }, Some((p, _))) => {
+            let d = trace.exit_dir;
+            let at = |dx: f64| {
+                let s = (t + dx - p.x) / d.x;
+                p + d * s
+            };
+            Some([at(TRACE_BACK_MM[0]), at(TRACE_BACK_MM[1])])
+        }
+        _ => None,
+    };
+    RayAnswer {
+        height_mm: h,
+        crossing_from_entry_mm: x,
+        crossing_from_exit_mm: x.map(|x| x - t),
+        exit_face: trace.exit.map(|(_, b)| outline.boundary_name(b)),
+        exit_angle_deg: angle,
+        tolerance_mm: tolerance,
+        trace_back,
+        in_band: band.is_some_and(|b| b.contains(h)),
+        trace,
+    }
+}
+
+/// Plans one sheet with the given guide heights (or the defaults) and entry side.
+pub fn plan_sheet(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec, entry: Entry, heights: Option<&[f64]>) -> SheetPlan {
+    let kp = &kit.pieces[spec.piece];
+    let outline = Outline::new(kp.piece, entry);
+    let paraxial = Paraxial::of(&kp.piece, entry);
+    let lead_in = lead_in_for(&paraxial, paper);
+    let rules = rules_for(kit, paper, &outline, lead_in);
+    let band = safe_band(&outline, &rules);
+    let a = outline.a();
+    let heights: Vec<f64> = match heights {
+        Some(h) => h.to_vec(),
+        None => default_heights(spec.kind, band.as_ref(), kit, a),
+    };
+    let rays: Vec<RayAnswer> = heights.iter().map(|&h| answer_ray(&outline, &rules, band.as_ref(), h)).collect();
+    let mut warnings = Vec::new();
+    match &band {
+        None => warnings.push("no guide height qualifies on this piece and paper; check the piece's size and the ray width".into()),
+        Some(b) => {
+            for r in &rays {
+                // A focal sheet's beam is the ray box's: its inner rays are meant to be near
+                // the axis, so only rays above the band are worth a warning there.
+                let matters = match spec.kind {
+                    SheetKind::Focal => r.height_mm.abs() > b.max_mm,
+                    SheetKind::CurvedFace => r.height_mm != 0.0,
+                };
+                if matters && !r.in_band {
+                    let why = if r.height_mm.abs() < b.min_mm { &b.min_reason } else { &b.max_reason };
+                    warnings.push(format!(
+                        "guide height {} mm lies outside the safe band {:.1}–{:.1} mm: {why}",
+                        fmt_mm(r.height_mm),
+                        b.min_mm,
+                        b.max_mm
+                    ));
+                }
+            }
+        }
+    }
+    for r in &rays {
+        match r.trace.outcome {
+            Outcome::TotalInternalReflection => warnings.push(format!("the ray at {} mm is totally internally reflected", fmt_mm(r.height_mm))),
+            Outcome::LeavesThroughEdge => warnings.push(format!("the ray at {} mm leaves through an edge", fmt_mm(r.height_mm))),
+            Outcome::Misses => warnings.push(format!("the ray at {} mm misses the piece", fmt_mm(r.height_mm))),
+            _ => {}
+        }
+    }
+    let (x0, x1) = outline.x_range();
+    let mut x_max = x1 + 40.0;
+    let mut x_min = x0 - lead_in;
+    for r in &rays {
+        if let Some(x) = r.crossing_from_entry_mm {
+            if x > 0.0 {
+                x_max = x_max.max(x + TAIL_MM);
+            } else {
+                x_min = x_min.min(x - 15.0);
+            }
+        }
+        if let Some(tb) = r.trace_back {
+            x_max = x_max.max(tb[1].x + TAIL_MM);
+        }
+    }
+    if let Some(f) = paraxial.rear_focus_x() {
+        if f > 0.0 {
+            x_max = x_max.max(f + TAIL_MM);
+        } else {
+            x_min = x_min.min(f - 15.0);
+        }
+    }
+    let printable = paper.page_mm().0 - 2.0 * paper.margin_mm;
+    if x_max - x_min > printable + 1e-9 {
+        warnings.push(format!(
+            "the setup is {:.0} mm long, more than the {:.0} mm printable on {} paper: it is tiled over several pages",
+            x_max - x_min,
+            printable,
+            paper.size.name
+        ));
+    }
+    // Room across the axis for the traced rays inside the drawing (they may leave steeply).
+    let mut y_half = a + 8.0;
+    for r in &rays {
+        for p in &r.trace.path {
+            if p.x >= x_min && p.x <= x_max {
+                y_half = y_half.max(p.y.abs() + 4.0);
+            }
+        }
+        if let Some(tb) = r.trace_back {
+            y_half = y_half.max(tb[1].y.abs() + 4.0);
+        }
+    }
+    SheetPlan {
+        number: spec.number,
+        kind: spec.kind,
+        piece_id: kp.id.clone(),
+        piece_label: kp.label.clone(),
+        entry,
+        outline,
+        paraxial,
+        band,
+        rays,
+        rules,
+        setup: Setup { x_min, x_max, y_half },
+        group: None,
+        variant: None,
+        warnings,
+    }
+}
+
+/// Plans every sheet of the kit, ungrouped: fixed heights where given, defaults elsewhere.
+pub fn plan_kit(kit: &Kit, paper: &PaperSpec) -> Vec<SheetPlan> {
+    kit.sheets.iter().map(|s| plan_sheet(kit, s, paper, s.entry, s.heights_mm.as_deref())).collect()
+}
+
+/// A length for messages: integers without decimals, else one decimal.
+pub fn fmt_mm(v: f64) -> String {
+    if (v - v.round()).abs() < 1e-9 { format!("{}", v.round()) } else { format!("{v:.1}") }
+}
