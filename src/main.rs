@@ -5,9 +5,11 @@
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
+mod write;
+
 use clap::Parser;
-use raysheet::cli::{Cli, ClassArgs, Command, PaperArgs, UsageError, resolve_paper};
-use raysheet::kit::Kit;
+use raysheet::cli::{Cli, ClassArgs, Command, OutArgs, PaperArgs, UsageError, parse_formats, resolve_paper};
+use raysheet::kit::{Groups, Kit};
 use raysheet::{answers, demo, plan, report};
 
 /// What went wrong, and which exit code it earns.
@@ -39,17 +41,90 @@ fn demo_kit() -> Result<Kit, Failure> {
 
 fn solve(kit: &Kit, paper_args: &PaperArgs, class: &ClassArgs, json: bool) -> Result<(), Failure> {
     let paper = resolve_paper(&kit.paper, paper_args)?;
-    let plans = plan::plan_kit(kit, &paper);
+    let (plans, notes, seed) = match class_plan(kit, &paper, class)? {
+        None => (plan::plan_kit(kit, &paper), Vec::new(), class.seed),
+        Some(cp) => (cp.plans.iter().flatten().cloned().collect(), cp.notes.clone(), Some(cp.seed)),
+    };
     if json {
-        print!("{}", answers::to_json(&kit.title, class.seed, &plans));
+        print!("{}", answers::to_json(&kit.title, seed, &plans));
     } else {
         let mut out = format!("{}\n", kit.title);
+        for n in &notes {
+            out.push_str(&format!("note: {n}\n"));
+        }
         for p in &plans {
             out.push('\n');
             out.push_str(&report::sheet_table(p));
         }
         print!("{out}");
     }
+    Ok(())
+}
+
+/// The class plan when the kit or the command line asks for groups.
+fn class_plan(kit: &Kit, paper: &raysheet::paper::PaperSpec, class: &ClassArgs) -> Result<Option<plan::ClassPlan>, Failure> {
+    let Some(names) = resolve_groups(kit, class)? else { return Ok(None) };
+    let seed = class.seed.or(kit.class.seed).unwrap_or(DEFAULT_SEED);
+    let folders = plan::folder_names(&names);
+    let groups = names.into_iter().zip(folders).map(|(name, folder)| plan::Group { name, folder }).collect();
+    Ok(Some(plan::plan_class(kit, paper, groups, seed)))
+}
+
+/// Default seed when neither the kit nor the command line gives one.
+const DEFAULT_SEED: u64 = 1;
+
+/// The groups of a class set: `--roster` first, then the kit's [class] table.
+fn resolve_groups(kit: &Kit, class: &ClassArgs) -> Result<Option<Vec<String>>, Failure> {
+    if let Some(path) = &class.roster {
+        let name = path.display().to_string();
+        let bytes = std::fs::read(path).map_err(|e| Failure::Input(format!("{name}: cannot read the roster: {e}")))?;
+        let text = String::from_utf8(bytes).map_err(|e| {
+            Failure::Input(format!("{name}: the roster is not UTF-8 text (bad byte at offset {}); save it as UTF-8 CSV", e.utf8_error().valid_up_to()))
+        })?;
+        return plan::parse_roster(&text, &name).map(Some).map_err(|e| Failure::Input(e.to_string()));
+    }
+    Ok(match &kit.class.groups {
+        Groups::None => None,
+        Groups::Count(n) => Some((1..=*n).map(|i| format!("Group {i}")).collect()),
+        Groups::Names(names) => Some(names.clone()),
+    })
+}
+
+fn build(kit: &Kit, dir: &Path, out: &OutArgs, paper_args: &PaperArgs, class: &ClassArgs) -> Result<(), Failure> {
+    let formats = parse_formats(&out.format)?;
+    let paper = resolve_paper(&kit.paper, paper_args)?;
+    let (files, warnings) = match class_plan(kit, &paper, class)? {
+        None => {
+            let plans = plan::plan_kit(kit, &paper);
+            let warnings: Vec<String> =
+                plans.iter().flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))).collect();
+            (raysheet::build::build_plans(kit, &plans, &paper, formats, class.seed), warnings)
+        }
+        Some(cp) => {
+            let mut warnings = cp.notes.clone();
+            if let Some(first) = cp.plans.first() {
+                warnings.extend(first.iter().flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))));
+            }
+            (raysheet::build::build_class(kit, &cp, &paper, formats), warnings)
+        }
+    };
+    let files = files.map_err(|e| Failure::Input(e.to_string()))?;
+    let written = write::write_all(dir, &files, out.force).map_err(|e| match e {
+        write::WriteError::Refused(msg) => Failure::Input(msg),
+        write::WriteError::Io(msg) => Failure::Other(msg),
+    })?;
+    for w in &warnings {
+        eprintln!("raysheet: warning: {w}");
+    }
+    println!("Wrote {} files to {}:", written.len(), dir.display());
+    for w in written.iter().filter(|p| !p.to_string_lossy().contains("/svg/")) {
+        println!("  {}", w.display());
+    }
+    let svgs = written.iter().filter(|p| p.to_string_lossy().contains("/svg/")).count();
+    if svgs > 0 {
+        println!("  and {svgs} SVG files in svg/ folders");
+    }
+    println!("Print at actual size (100 %) and check both scale bars before the lesson.");
     Ok(())
 }
 
@@ -60,21 +135,31 @@ fn run(cli: Cli) -> Result<(), Failure> {
             let paper = resolve_paper(&kit.paper, &paper)?;
             let plans = plan::plan_kit(&kit, &paper);
             print!("{}", report::check_report(&kit, &plans));
+            if let Some(cp) = class_plan(&kit, &paper, &ClassArgs::default())? {
+                println!("\nClass set: {} groups, seed {}", cp.groups.len(), cp.seed);
+                for n in &cp.notes {
+                    println!("  note: {n}");
+                }
+                if cp.notes.is_empty() {
+                    println!("  every sheet has room for a different setting per group");
+                }
+            }
             Ok(())
         }
         Command::Solve { kit, json, paper, class } => solve(&read_kit(&kit)?, &paper, &class, json),
-        Command::Build { .. } => Err(Failure::Other("build is not available yet".into())),
-        Command::Demo { print_kit, .. } => {
+        Command::Build { kit, out, paper, class } => {
+            let kit = read_kit(&kit)?;
+            let dir = out.out.clone().ok_or_else(|| Failure::Input("build needs --out DIR: the folder to write the sheets into".into()))?;
+            build(&kit, &dir, &out, &paper, &class)
+        }
+        Command::Demo { out, print_kit, class } => {
             if print_kit {
                 print!("{}", demo::DEMO_KIT);
                 return Ok(());
             }
             let kit = demo_kit()?;
-            let paper = resolve_paper(&kit.paper, &PaperArgs::default())?;
-            let plans = plan::plan_kit(&kit, &paper);
-            print!("{}", report::check_report(&kit, &plans));
-            let _ = PathBuf::new();
-            Ok(())
+            let dir = out.out.clone().unwrap_or_else(|| PathBuf::from("raysheet-demo"));
+            build(&kit, &dir, &out, &PaperArgs::default(), &class)
         }
     }
 }

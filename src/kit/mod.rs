@@ -162,7 +162,10 @@ fn de_error(loc: &Locator<'_>, e: &toml::de::Error) -> KitError {
     if let Some(rest) = msg.strip_prefix("unknown field `") {
         let name = rest.split('`').next().unwrap_or("");
         let table = path.split(['.', '[']).next().unwrap_or("");
-        let table = if path.contains('.') || path.contains('[') { table } else { "" };
+        // `[ray_box]` then `key = …` gives `ray_box.key`; an inline table
+        // `ray_box = { … }` gives just `ray_box`, itself a table name.
+        let inline = !path.is_empty() && TABLE_FIELDS.iter().any(|(t, _)| !t.is_empty() && *t == path);
+        let table = if path.contains('.') || path.contains('[') || inline { table } else { "" };
         let known = TABLE_FIELDS.iter().find(|(t, _)| *t == table).map(|(_, f)| *f).unwrap_or(&[]);
         let best = known
             .iter()
@@ -171,7 +174,8 @@ fn de_error(loc: &Locator<'_>, e: &toml::de::Error) -> KitError {
             .filter(|(d, _)| *d <= 3)
             .map(|(_, k)| format!("did you mean `{k}`? "))
             .unwrap_or_default();
-        return loc.error(offset, path, format!("unknown field `{name}`"), format!("{best}accepted here: {}", known.join(", ")));
+        let field = if inline { format!("{path}.{name}") } else { path };
+        return loc.error(offset, field, format!("unknown field `{name}`"), format!("{best}accepted here: {}", known.join(", ")));
     }
     if let Some(rest) = msg.strip_prefix("missing field `") {
         let name = rest.split('`').next().unwrap_or("");
@@ -179,18 +183,43 @@ fn de_error(loc: &Locator<'_>, e: &toml::de::Error) -> KitError {
         let field = if table.is_empty() { name.to_string() } else { format!("{table}.{name}") };
         return loc.error(offset, field, format!("missing field `{name}`"), format!("add `{name} = …` to this table"));
     }
-    let hint = if msg.contains("expected f64") || msg.contains("expected a number") {
+    // Choose the hint from what was expected, not from what was found: "invalid
+    // type: integer `10`, expected a sequence" wants a list, not a whole number.
+    let expected = msg.rsplit_once("expected ").map(|(_, e)| e).unwrap_or("");
+    let hint = if expected.starts_with("f64") || expected.starts_with("a number") {
         "give a number, such as 45 or 45.5".to_string()
-    } else if msg.contains("expected i64") || msg.contains("integer") {
+    } else if expected.starts_with("i64") || expected.starts_with("an integer") {
         "give a whole number, such as 5".to_string()
-    } else if msg.contains("expected a string") || msg.contains("expected string") {
+    } else if expected.starts_with("a string") || expected.starts_with("string") {
         "give text in double quotes".to_string()
-    } else if msg.contains("expected a sequence") {
+    } else if expected.starts_with("a sequence") {
         "give a list in square brackets, such as [8, -8]".to_string()
+    } else if expected.starts_with("a boolean") {
+        "give true or false".to_string()
+    } else if expected.starts_with("struct") || expected.starts_with("a map") {
+        "give a table: a [name] header with `key = value` lines below it".to_string()
     } else {
         "see README.md for the kit format".to_string()
     };
-    loc.error(offset, path, msg.replace('\n', " "), hint)
+    loc.error(offset, path, plain_type_words(&msg).replace('\n', " "), hint)
+}
+
+/// serde's type words in teacher's words: `expected f64` → `expected a number`,
+/// `expected a sequence` → `expected a list`, `expected struct RawPiece` →
+/// `expected a table` (no Rust names in messages).
+fn plain_type_words(msg: &str) -> String {
+    let msg = msg
+        .replace("expected f64", "expected a number")
+        .replace("expected i64", "expected a whole number")
+        .replace("expected a sequence", "expected a list");
+    match msg.find("expected struct ") {
+        Some(i) => {
+            let rest = &msg[i + "expected struct ".len()..];
+            let tail = rest.find(|c: char| !(c.is_alphanumeric() || c == '_')).map_or("", |j| &rest[j..]);
+            format!("{}expected a table{tail}", &msg[..i])
+        }
+        None => msg,
+    }
 }
 
 struct Validator<'a> {
@@ -354,7 +383,7 @@ impl Validator<'_> {
                 E::Height(_) => (p.height_mm.span(), f("height_mm")),
                 E::Index(_) => (p.material.span(), f("material")),
             };
-            self.loc.error(span.start, field, e.to_string(), "")
+            self.loc.error(span.start, field, e.problem(), e.advice())
         })?;
         Ok(KitPiece { id, label: p.label.as_ref().map(|l| l.get_ref().clone()), material, piece, line: self.line(&sp.span()) })
     }
@@ -478,11 +507,18 @@ impl Validator<'_> {
         if let Some(m) = &raw.margin_mm {
             spec.margin_mm = *m.get_ref();
             if let Err(msg) = spec.check() {
-                return self.err(m.span(), "paper.margin_mm".into(), msg, "");
+                let most = ((spec.size.width_mm - crate::paper::MIN_PRINTABLE_MM) / 2.0).max(0.0);
+                let hint = format!("give a margin from 0 to {most:.1} mm on this paper (10 mm suits most printers)");
+                return self.err(m.span(), "paper.margin_mm".into(), msg, &hint);
             }
         }
         if let Err(msg) = spec.check() {
-            return self.err(whole, "paper".into(), msg, "");
+            let hint = format!(
+                "give paper at least {:.1} mm wide on its short side with a {} mm margin",
+                crate::paper::MIN_PRINTABLE_MM + 2.0 * spec.margin_mm,
+                spec.margin_mm
+            );
+            return self.err(whole, "paper".into(), msg, &hint);
         }
         Ok(spec)
     }

@@ -71,22 +71,45 @@ pub enum PieceError {
     },
 }
 
-impl std::fmt::Display for PieceError {
-    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+impl PieceError {
+    /// What is wrong, without the advice.
+    pub fn problem(&self) -> String {
         match self {
-            PieceError::Index(n) => write!(f, "index {n} is not a usable index of refraction; give a finite number above 1 (acrylic is about 1.49)"),
-            PieceError::Thickness(t) => write!(f, "thickness {t} mm must be a finite number above 0"),
-            PieceError::Height(h) => write!(f, "height {h} mm must be a finite number above 0"),
-            PieceError::Radius { face, radius_mm } => write!(f, "{face} radius {radius_mm} mm must be a finite number above 0"),
-            PieceError::RadiusBelowHalfHeight { face, radius_mm, half_height_mm } => write!(
-                f,
-                "{face} radius {radius_mm} mm is smaller than half the height ({half_height_mm} mm), so the arc cannot reach the edges; use a radius of at least {half_height_mm} mm or a smaller height"
+            PieceError::Index(n) => format!("index {n} is not a usable index of refraction"),
+            PieceError::Thickness(t) => format!("thickness {t} mm is not a usable thickness"),
+            PieceError::Height(h) => format!("height {h} mm is not a usable height"),
+            PieceError::Radius { face, radius_mm } => format!("{face} radius {radius_mm} mm is not a usable radius"),
+            PieceError::RadiusBelowHalfHeight { face, radius_mm, half_height_mm } => format!(
+                "{face} radius {radius_mm} mm is smaller than half the height ({half_height_mm} mm), so the arc cannot reach the edges"
             ),
-            PieceError::NegativeEdge { edge_mm } => write!(
-                f,
-                "the faces cross before the edges (edge thickness would be {edge_mm:.3} mm); make the piece thicker on the axis, its faces flatter, or its height smaller"
+            PieceError::NegativeEdge { edge_mm } => {
+                format!("the faces cross before the edges (edge thickness would be {edge_mm:.3} mm)")
+            }
+        }
+    }
+
+    /// What would be accepted instead.
+    pub fn advice(&self) -> String {
+        match self {
+            PieceError::Index(_) => "give a finite number above 1 (acrylic is about 1.49)".into(),
+            PieceError::Thickness(_) | PieceError::Height(_) | PieceError::Radius { .. } => {
+                "give a finite number of millimetres above 0".into()
+            }
+            PieceError::RadiusBelowHalfHeight { radius_mm, half_height_mm, .. } => format!(
+                "use a radius of at least {half_height_mm} mm, or a height of at most {} mm",
+                2.0 * radius_mm
+            ),
+            PieceError::NegativeEdge { edge_mm } => format!(
+                "make the piece at least {:.3} mm thicker on the axis, its faces flatter, or its height smaller",
+                -edge_mm
             ),
         }
+    }
+}
+
+impl std::fmt::Display for PieceError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{}; {}", self.problem(), self.advice())
     }
 }
 

@@ -170,15 +170,21 @@ fn reason(limit: Limit, h: f64, lower: bool, outline: &Outline, rules: &BandRule
     }
 }
 
-/// Finds the safe band: scans |h| from 0 to the half-height in 0.05 mm steps,
+/// Most heights [`safe_band`] scans: 0.05 mm steps up to a half-height of 1 m.
+const MAX_SCAN_STEPS: usize = 20_000;
+
+/// Finds the safe band: scans |h| from 0 to the half-height in 0.05 mm steps
+/// (coarser for pieces over 2 m tall, see [`MAX_SCAN_STEPS`]),
 /// takes the widest run of passing heights (preferring the one containing a
 /// third of the half-height, where teachers place single rays — common
 /// practice, no source), and refines both ends by bisection to 0.001 mm.
 /// `None` when no height passes.
 pub fn safe_band(outline: &Outline, rules: &BandRules) -> Option<SafeBand> {
     let a = outline.a();
-    let step = 0.05;
-    let n = (a / step).floor() as usize;
+    // 0.05 mm steps, but never more than MAX_SCAN_STEPS of them: a kit may
+    // describe an absurdly large piece, which must not hang or exhaust memory.
+    let step = (a / MAX_SCAN_STEPS as f64).max(0.05);
+    let n = ((a / step).floor() as usize).min(MAX_SCAN_STEPS);
     let ok: Vec<bool> = (0..=n).map(|i| check_height(outline, rules, i as f64 * step).is_none()).collect();
     let mut runs: Vec<(usize, usize)> = Vec::new();
     let mut i = 0;

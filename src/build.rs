@@ -1,0 +1,109 @@
+//! A whole build as values: every output file's relative path and bytes.
+//! Writing them to disk (atomically, without clobbering) is `main.rs`'s job.
+
+use crate::answers;
+use crate::cli::Formats;
+use crate::kit::Kit;
+use crate::layout::{self, Templates};
+use crate::paper::PaperSpec;
+use crate::plan::{ClassPlan, SheetPlan};
+use crate::render::{RenderError, render_pdf, render_svg_page};
+use crate::scene::Scene;
+
+/// One file of a build.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Output {
+    /// Path relative to the output folder, `/`-separated.
+    pub path: String,
+    /// The file's bytes.
+    pub bytes: Vec<u8>,
+}
+
+/// Why a build could not be made.
+#[derive(Debug)]
+pub enum BuildError {
+    /// A renderer refused a drawing (a character the font lacks, say).
+    Render(RenderError),
+    /// The shipped templates are broken (a build defect).
+    Templates(String),
+    /// The output would be unreasonably large.
+    TooLarge(String),
+}
+
+impl std::fmt::Display for BuildError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            BuildError::Render(e) => write!(f, "{e}"),
+            BuildError::Templates(e) | BuildError::TooLarge(e) => write!(f, "{e}"),
+        }
+    }
+}
+
+impl std::error::Error for BuildError {}
+
+impl From<RenderError> for BuildError {
+    fn from(e: RenderError) -> BuildError {
+        BuildError::Render(e)
+    }
+}
+
+fn scene_files(scene: &Scene, prefix: &str, pdf_name: &str, formats: Formats, out: &mut Vec<Output>) -> Result<(), BuildError> {
+    if formats.pdf {
+        out.push(Output { path: format!("{prefix}{pdf_name}"), bytes: render_pdf(scene)? });
+    }
+    if formats.svg {
+        for page in &scene.pages {
+            let svg = render_svg_page(page, &scene.title)?;
+            out.push(Output { path: format!("{prefix}svg/{}.svg", page.name), bytes: svg.into_bytes() });
+        }
+    }
+    Ok(())
+}
+
+/// Builds the student sheets, keys and answer file for already-made plans.
+pub fn build_plans(kit: &Kit, plans: &[SheetPlan], paper: &PaperSpec, formats: Formats, seed: Option<u64>) -> Result<Vec<Output>, BuildError> {
+    let templates = Templates::shipped().map_err(BuildError::Templates)?;
+    let set = layout::layout(&kit.title, plans, paper, &templates);
+    let mut out = Vec::new();
+    scene_files(&set.sheets, "", "sheets.pdf", formats, &mut out)?;
+    scene_files(&set.keys, "", "keys.pdf", formats, &mut out)?;
+    out.push(Output { path: "answers.json".into(), bytes: answers::to_json(&kit.title, seed, plans).into_bytes() });
+    Ok(out)
+}
+
+/// Largest number of pages a class set may have (a runaway guard).
+pub const MAX_PAGES: usize = 2000;
+
+/// Builds a class set: per-group folders with sheets, keys and SVGs; every
+/// group's sheets and keys in one PDF each; the summary; the answer file.
+pub fn build_class(kit: &Kit, class: &ClassPlan, paper: &PaperSpec, formats: Formats) -> Result<Vec<Output>, BuildError> {
+    let templates = Templates::shipped().map_err(BuildError::Templates)?;
+    let mut all_sheets = Scene { title: format!("{}: student sheets, all groups", kit.title), pages: Vec::new() };
+    let mut all_keys = Scene { title: format!("{}: answer keys, all groups", kit.title), pages: Vec::new() };
+    let mut out = Vec::new();
+    for (group, plans) in class.groups.iter().zip(&class.plans) {
+        let set = layout::layout(&format!("{}", kit.title), plans, paper, &templates);
+        let prefix = format!("groups/{}/", group.folder);
+        let sheets = Scene { title: format!("{}: {}: student sheets", kit.title, group.name), pages: set.sheets.pages };
+        let keys = Scene { title: format!("{}: {}: answer keys", kit.title, group.name), pages: set.keys.pages };
+        if all_sheets.pages.len() + sheets.pages.len() + all_keys.pages.len() + keys.pages.len() > MAX_PAGES {
+            return Err(BuildError::TooLarge(format!(
+                "this class set would need more than {MAX_PAGES} pages; make fewer groups or fewer sheets"
+            )));
+        }
+        scene_files(&sheets, &prefix, "sheets.pdf", formats, &mut out)?;
+        scene_files(&keys, &prefix, "keys.pdf", formats, &mut out)?;
+        all_sheets.pages.extend(sheets.pages);
+        all_keys.pages.extend(keys.pages);
+    }
+    if formats.pdf {
+        out.push(Output { path: "sheets.pdf".into(), bytes: render_pdf(&all_sheets)? });
+        out.push(Output { path: "keys.pdf".into(), bytes: render_pdf(&all_keys)? });
+        let summary = layout::summary_scene(&kit.title, class, paper);
+        out.push(Output { path: "summary.pdf".into(), bytes: render_pdf(&summary)? });
+    }
+    out.push(Output { path: "summary.csv".into(), bytes: crate::summary::summary_csv(class).into_bytes() });
+    let flat: Vec<SheetPlan> = class.plans.iter().flatten().cloned().collect();
+    out.push(Output { path: "answers.json".into(), bytes: answers::to_json(&kit.title, Some(class.seed), &flat).into_bytes() });
+    Ok(out)
+}

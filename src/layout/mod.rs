@@ -1,0 +1,465 @@
+//! Places sheet plans on paper at 1:1: header, the setup drawing (tiled when
+//! it does not fit), instructions and measurement table from `templates/`,
+//! scale checks, the safety caution and, on keys, the answers and the
+//! aberration plot. Never re-traces rays for answers, never writes bytes.
+
+mod drawing;
+mod labels;
+mod plot;
+mod summary;
+mod templates;
+mod text;
+
+pub use drawing::{ray_letter, rays_top_down, signed};
+pub use summary::summary_scene;
+pub use templates::Templates;
+pub use text::{text_box, wrap};
+
+use crate::geom::{Point, Vec2};
+use crate::kit::SheetKind;
+use crate::optics::Outcome;
+use crate::paper::PaperSpec;
+use crate::plan::{SheetPlan, fmt_mm};
+use crate::scene::{Anchor, Item, MarkerShape, Page, Rect, Scene, Stroke, Weight};
+use drawing::{Drawing, key_extras, student};
+use text::{leading, text};
+
+/// Which of the two documents a page belongs to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Role {
+    /// The student sheet.
+    Student,
+    /// The answer key (same coordinates, plus answers).
+    Key,
+}
+
+/// Overlap between neighbouring tiles, mm.
+pub const TILE_OVERLAP_MM: f64 = 12.0;
+const HEADER_MM: f64 = 15.0;
+const CAUTION_MM: f64 = 8.0;
+const BODY_PT: f64 = 8.0;
+
+/// The regions of a page, page mm.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Regions {
+    /// Page width and height.
+    pub page: (f64, f64),
+    /// The printable area inside the margins.
+    pub printable: Rect,
+    /// Where the setup is drawn.
+    pub drawing: Rect,
+    /// Instructions and table (or key values and table).
+    pub text_block: Rect,
+    /// Scale checks and the plot or tile map.
+    pub side_block: Rect,
+    /// The safety caution.
+    pub caution: Rect,
+}
+
+/// Works out the page regions for this paper. Wide pages (≥ 250 mm printable)
+/// put the text and side blocks side by side; narrow ones stack them.
+pub fn regions(paper: &PaperSpec) -> Regions {
+    let (w, h) = paper.page_mm();
+    let m = paper.margin_mm;
+    let printable = Rect { min: Point::new(m, m), max: Point::new(w - m, h - m) };
+    let pw = printable.width();
+    let caution = Rect { min: printable.min, max: Point::new(printable.max.x, m + CAUTION_MM) };
+    let (text_block, side_block, footer_top) = if pw >= 250.0 {
+        let top = m + CAUTION_MM + 58.0;
+        let split = m + 152.0;
+        (
+            Rect { min: Point::new(m, m + CAUTION_MM), max: Point::new(split, top) },
+            Rect { min: Point::new(split + 4.0, m + CAUTION_MM), max: Point::new(w - m, top) },
+            top,
+        )
+    } else {
+        let side_top = m + CAUTION_MM + 56.0;
+        let top = side_top + 58.0;
+        (
+            Rect { min: Point::new(m, side_top), max: Point::new(w - m, top) },
+            Rect { min: Point::new(m, m + CAUTION_MM), max: Point::new(w - m, side_top) },
+            top,
+        )
+    };
+    let drawing = Rect { min: Point::new(m, footer_top + 3.0), max: Point::new(w - m, h - m - HEADER_MM) };
+    Regions { page: (w, h), printable, drawing, text_block, side_block, caution }
+}
+
+/// How a setup is split over pages: columns × rows of tiles.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Tiling {
+    /// Tiles along the axis.
+    pub columns: usize,
+    /// Tiles across the axis.
+    pub rows: usize,
+}
+
+impl Tiling {
+    /// Number of pages.
+    pub fn pages(&self) -> usize {
+        self.columns * self.rows
+    }
+}
+
+fn tiles_needed(length: f64, window: f64) -> usize {
+    if length <= window + 1e-9 {
+        1
+    } else {
+        ((length - TILE_OVERLAP_MM) / (window - TILE_OVERLAP_MM)).ceil() as usize
+    }
+}
+
+/// Tiles for a setup of `length` × `height` mm in a drawing window of the
+/// given size, with [`TILE_OVERLAP_MM`] overlap: n = ⌈(L − o)/(W − o)⌉ when L > W.
+pub fn tiling_for(length: f64, height: f64, window: &Rect) -> Tiling {
+    Tiling { columns: tiles_needed(length, window.width()), rows: tiles_needed(height, window.height()) }
+}
+
+/// The student sheets and answer keys for a set of plans.
+pub struct SheetSet {
+    /// Every student sheet, in order.
+    pub sheets: Scene,
+    /// Every answer key, in order.
+    pub keys: Scene,
+}
+
+/// Lays out every plan as a student sheet and a key.
+pub fn layout(kit_title: &str, plans: &[SheetPlan], paper: &PaperSpec, t: &Templates) -> SheetSet {
+    let mut sheets = Scene { title: format!("{kit_title}: student sheets"), pages: Vec::new() };
+    let mut keys = Scene { title: format!("{kit_title}: answer keys"), pages: Vec::new() };
+    for p in plans {
+        sheets.pages.extend(pages_for(kit_title, p, paper, t, Role::Student));
+        keys.pages.extend(pages_for(kit_title, p, paper, t, Role::Key));
+    }
+    SheetSet { sheets, keys }
+}
+
+fn sheet_text<'a>(p: &SheetPlan, t: &'a Templates) -> &'a templates::SheetText {
+    match p.kind {
+        SheetKind::CurvedFace => &t.curved_face,
+        SheetKind::Focal if p.is_diverging() => &t.focal_diverging,
+        SheetKind::Focal => &t.focal,
+    }
+}
+
+/// A file-name stem for a plan's pages: `sheet-03` or `sheet-03-bench-a`.
+pub fn page_stem(p: &SheetPlan, role: Role) -> String {
+    let kind = if role == Role::Student { "sheet" } else { "key" };
+    format!("{kind}-{:02}", p.number)
+}
+
+/// The pages of one plan (several when tiled).
+pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Templates, role: Role) -> Vec<Page> {
+    let rg = regions(paper);
+    let s = p.setup;
+    let length = s.x_max - s.x_min;
+    let height = 2.0 * s.y_half;
+    let tiling = tiling_for(length, height, &rg.drawing);
+    let mut d: Drawing = student(p);
+    let mut items = std::mem::take(&mut d.items);
+    if role == Role::Key {
+        items.extend(key_extras(p, &mut d));
+    }
+    let win = rg.drawing;
+    let mut pages = Vec::new();
+    for row in 0..tiling.rows {
+        for col in 0..tiling.columns {
+            let n = row * tiling.columns + col;
+            let (ox, oy) = if tiling.columns == 1 && tiling.rows == 1 {
+                // Centred in the window.
+                let ox = win.min.x + (win.width() - length) / 2.0 - s.x_min;
+                (ox, (win.min.y + win.max.y) / 2.0)
+            } else {
+                let wx0 = s.x_min + col as f64 * (win.width() - TILE_OVERLAP_MM);
+                let ox = win.min.x - wx0;
+                let oy = if tiling.rows == 1 {
+                    (win.min.y + win.max.y) / 2.0
+                } else {
+                    let wy_top = s.y_half - row as f64 * (win.height() - TILE_OVERLAP_MM);
+                    win.max.y - wy_top
+                };
+                (ox, oy)
+            };
+            let mut tile_items = items.clone();
+            if tiling.pages() > 1 {
+                tile_items.extend(join_marks(p, &tiling, &win));
+            }
+            let mut page_items = header(kit_title, p, &rg, t, role, (n, tiling));
+            page_items.push(Item::Group { clip: win, offset: Vec2::new(ox, oy), items: tile_items });
+            if n == 0 {
+                page_items.extend(text_block(p, &rg.text_block, t, role));
+            } else {
+                page_items.extend(tile_note(n, tiling, &rg.text_block));
+            }
+            page_items.extend(side_block(p, &rg.side_block, t, role, (n, tiling)));
+            page_items.extend(caution(&rg.caution, t));
+            let stem = page_stem(p, role);
+            let name = if tiling.pages() > 1 { format!("{stem}-tile{}", n + 1) } else { stem };
+            pages.push(Page { width_mm: rg.page.0, height_mm: rg.page.1, name, items: page_items });
+        }
+    }
+    pages
+}
+
+/// Join marks in the overlap between tiles, in the sheet frame: a cross in a
+/// ring at the top and bottom of every overlap, so neighbouring tiles line up.
+fn join_marks(p: &SheetPlan, tiling: &Tiling, win: &Rect) -> Vec<Item> {
+    let s = p.setup;
+    let mut out = Vec::new();
+    let stroke = Stroke::solid(0.25);
+    for col in 1..tiling.columns {
+        let x = s.x_min + col as f64 * (win.width() - TILE_OVERLAP_MM) + TILE_OVERLAP_MM / 2.0;
+        for y in [s.y_half - 4.0, -(s.y_half - 4.0)] {
+            let at = Point::new(x, y.clamp(-win.height() / 2.0 + 4.0, win.height() / 2.0 - 4.0));
+            out.push(Item::Marker { at, shape: MarkerShape::Cross, size_mm: 7.0, stroke });
+            out.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 4.0, stroke });
+        }
+    }
+    for row in 1..tiling.rows {
+        let y = s.y_half - row as f64 * (win.height() - TILE_OVERLAP_MM) - TILE_OVERLAP_MM / 2.0;
+        for x in [s.x_min + 6.0, s.x_max - 6.0] {
+            out.push(Item::Marker { at: Point::new(x, y), shape: MarkerShape::Cross, size_mm: 7.0, stroke });
+            out.push(Item::Marker { at: Point::new(x, y), shape: MarkerShape::Ring, size_mm: 4.0, stroke });
+        }
+    }
+    out
+}
+
+fn header(kit_title: &str, p: &SheetPlan, rg: &Regions, t: &Templates, role: Role, tile: (usize, Tiling)) -> Vec<Item> {
+    let top = rg.printable.max.y;
+    let left = rg.printable.min.x;
+    let right = rg.printable.max.x;
+    let mut items = Vec::new();
+    let heading = &sheet_text(p, t).heading;
+    let role_word = match role {
+        Role::Student => "Student sheet",
+        Role::Key => "ANSWER KEY (teacher's copy)",
+    };
+    items.push(text(Point::new(left, top - 5.0), &format!("{heading}: sheet {}", p.number), 13.0, Weight::Bold, Anchor::Start));
+    let piece = match &p.piece_label {
+        Some(l) => format!("{l} ({})", p.piece_id),
+        None => p.piece_id.clone(),
+    };
+    let tile_word = if tile.1.pages() > 1 { format!(" · tile {} of {}", tile.0 + 1, tile.1.pages()) } else { String::new() };
+    items.push(text(
+        Point::new(left, top - 10.5),
+        &format!("{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}", p.entry.as_str()),
+        BODY_PT,
+        Weight::Regular,
+        Anchor::Start,
+    ));
+    // The identity box: group and variant code (or the sheet number).
+    let mut lines = Vec::new();
+    if let Some(g) = &p.group {
+        lines.push(g.clone());
+    }
+    lines.push(match &p.variant {
+        Some(v) => format!("variant {v}"),
+        None => format!("sheet {}", p.number),
+    });
+    let wmax = lines.iter().map(|l| crate::font::text_width_mm(l, 10.0, Weight::Bold)).fold(0.0, f64::max);
+    let bx = Rect { min: Point::new(right - wmax - 6.0, top - 12.5), max: Point::new(right, top) };
+    items.push(Item::Box { rect: bx, fill: None, stroke: Some(Stroke::solid(0.4)) });
+    let n = lines.len() as f64;
+    for (i, l) in lines.iter().enumerate() {
+        let y = top - 6.25 + (n - 1.0) * 2.3 - i as f64 * 4.6 - 1.3;
+        items.push(text(Point::new(right - 3.0, y), l, 10.0, Weight::Bold, Anchor::End));
+    }
+    items.push(Item::Line { from: Point::new(left, top - 13.5), to: Point::new(bx.min.x - 3.0, top - 13.5), stroke: Stroke::solid(0.2) });
+    items
+}
+
+fn caution(r: &Rect, t: &Templates) -> Vec<Item> {
+    let lines = wrap(&t.common.safety, 7.0, Weight::Regular, r.width());
+    let mut out = Vec::new();
+    for (i, l) in lines.iter().take(2).enumerate() {
+        let y = r.max.y - 3.0 - i as f64 * leading(7.0);
+        out.push(Item::Text { at: Point::new(r.min.x, y), text: l.clone(), size_pt: 7.0, weight: Weight::Regular, anchor: Anchor::Start, rotate_deg: 0.0, gray: 0.15 });
+    }
+    out
+}
+
+fn fill(template: &str, p: &SheetPlan) -> String {
+    let piece = p.piece_label.clone().unwrap_or_else(|| format!("piece {}", p.piece_id));
+    template.replace("{piece}", &piece).replace("{entry}", p.entry.as_str())
+}
+
+fn f1(v: f64) -> String {
+    format!("{:.1}", v + 0.0)
+}
+
+fn key_values(p: &SheetPlan) -> Vec<String> {
+    let px = &p.paraxial;
+    let mut v = Vec::new();
+    let mm = |x: Option<f64>| x.map(|x| format!("{} mm", f1(x))).unwrap_or_else(|| "none".into());
+    v.push(format!(
+        "Lens maker's formula (thin lens): f = {}. Thick piece: focal length (EFL) {}, back focal length (BFL) {} from the exit face, front focal distance {}.",
+        mm(px.thin_lens_focal_mm()),
+        mm(px.efl_mm()),
+        mm(px.bfl_mm()),
+        mm(px.front_focal_mm())
+    ));
+    match px.efl_mm() {
+        Some(f) if f < 0.0 => v.push(format!(
+            "Diverging: the rays seem to come from a virtual focus {} before the exit face. A ruler from the exit face to where the dashed lines meet measures |BFL|; the focal length {} is counted from the rear principal plane.",
+            mm(px.bfl_mm().map(f64::abs)),
+            mm(Some(f))
+        )),
+        Some(f) => v.push(format!(
+            "A ruler from the exit face to where near-axis rays cross measures the BFL ({}); the focal length {} is counted from the rear principal plane ({} from the exit face).",
+            mm(px.bfl_mm()),
+            mm(Some(f)),
+            mm(px.rear_principal_mm())
+        )),
+        None => {}
+    }
+    if let Some(b) = &p.band {
+        v.push(format!("Safe band {}–{} mm from the axis: {}; {}.", f1(b.min_mm), f1(b.max_mm), b.min_reason, b.max_reason));
+    }
+    v.push(format!(
+        "Tolerances: ±{} mm across the ray divided by tan(angle to the axis); crossings are exact Snell's-law traces.",
+        fmt_mm(p.rules.across_error_mm())
+    ));
+    v
+}
+
+fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
+    let st = sheet_text(p, t);
+    let mut out = Vec::new();
+    let mut y = r.max.y - 3.0;
+    let (lines, size): (Vec<String>, f64) = match role {
+        Role::Student => (st.instructions.iter().map(|l| fill(l, p)).collect(), BODY_PT),
+        Role::Key => (key_values(p).iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(), 6.8),
+    };
+    let lead = leading(size);
+    for l in &lines {
+        out.push(text(Point::new(r.min.x, y), l, size, Weight::Regular, Anchor::Start));
+        y -= lead;
+    }
+    // The measurement table.
+    let order = rays_top_down(p);
+    let rows = order.len() + 1;
+    let avail = y - r.min.y - 1.0;
+    let row_h = (avail / rows as f64).clamp(3.6, 6.0);
+    let widths = [0.09, 0.17, 0.47, 0.27];
+    let mut x = r.min.x;
+    let xs: Vec<f64> = widths
+        .iter()
+        .map(|f| {
+            let x0 = x;
+            x += f * r.width();
+            x0
+        })
+        .collect();
+    let top = y + 0.8;
+    let stroke = Stroke::solid(0.2);
+    for k in 0..=rows {
+        let yy = top - k as f64 * row_h;
+        out.push(Item::Line { from: Point::new(r.min.x, yy), to: Point::new(r.max.x, yy), stroke });
+    }
+    for &xx in xs.iter().chain(std::iter::once(&r.max.x)) {
+        out.push(Item::Line { from: Point::new(xx, top), to: Point::new(xx, top - rows as f64 * row_h), stroke });
+    }
+    let cell = |k: usize| top - (k as f64 + 1.0) * row_h + row_h * 0.3;
+    let tsize = if row_h < 4.4 { 6.5 } else { 7.5 };
+    for (j, c) in st.columns.iter().enumerate().take(4) {
+        let w = (widths[j] * r.width() - 2.0).max(5.0);
+        let mut label = c.clone();
+        while crate::font::text_width_mm(&label, tsize, Weight::Bold) > w && label.chars().count() > 3 {
+            label.pop();
+        }
+        out.push(text(Point::new(xs[j] + 1.0, cell(0)), &label, tsize, Weight::Bold, Anchor::Start));
+    }
+    for (k, &i) in order.iter().enumerate() {
+        let ray = &p.rays[i];
+        let yy = cell(k + 1);
+        out.push(text(Point::new(xs[0] + 1.0, yy), &ray_letter(k), tsize, Weight::Regular, Anchor::Start));
+        out.push(text(Point::new(xs[1] + 1.0, yy), &signed(ray.height_mm), tsize, Weight::Regular, Anchor::Start));
+        if role == Role::Key {
+            let reference = if p.kind == SheetKind::CurvedFace { 0.0 } else { p.outline.t() };
+            let (value, note) = match (ray.trace.outcome, ray.crossing_from_entry_mm) {
+                (Outcome::Crosses { .. }, Some(x)) => (format!("{} ± {} mm", f1(x - reference), f1(ray.tolerance_mm.unwrap_or(0.0))), "crosses".to_string()),
+                (Outcome::Virtual { .. }, Some(x)) => (format!("{} ± {} mm", f1(p.outline.t() - x), f1(ray.tolerance_mm.unwrap_or(0.0))), "virtual: trace back".to_string()),
+                (Outcome::OnAxis, _) => ("on the axis: no crossing".to_string(), "straight through".to_string()),
+                (o, _) => ("no crossing".to_string(), o.as_str().replace('-', " ")),
+            };
+            out.push(text(Point::new(xs[2] + 1.0, yy), &value, tsize, Weight::Bold, Anchor::Start));
+            out.push(text(Point::new(xs[3] + 1.0, yy), &note, tsize, Weight::Regular, Anchor::Start));
+        }
+    }
+    out
+}
+
+fn tile_note(n: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
+    let lines = [
+        format!("Tile {} of {}: this setup is larger than the paper, so it is printed on {} pages.", n + 1, tiling.pages(), tiling.pages()),
+        "Overlap neighbouring tiles until the ringed crosses lie on top of each other, then tape them.".to_string(),
+        "The instructions and the table are on tile 1. The map on the right shows how the tiles join.".to_string(),
+    ];
+    lines
+        .iter()
+        .enumerate()
+        .map(|(i, l)| text(Point::new(r.min.x, r.max.y - 3.0 - i as f64 * leading(BODY_PT)), l, BODY_PT, Weight::Regular, Anchor::Start))
+        .collect()
+}
+
+fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, Tiling)) -> Vec<Item> {
+    let mut out = Vec::new();
+    // Scale checks: 100 mm across at the bottom, 50 mm up at the right.
+    let bar = Stroke::solid(0.35);
+    let y = r.min.y + 6.0;
+    let x0 = r.min.x + 1.0;
+    out.push(Item::Line { from: Point::new(x0, y), to: Point::new(x0 + 100.0, y), stroke: bar });
+    for k in 0..=10 {
+        let x = x0 + 10.0 * f64::from(k);
+        let len = if k % 5 == 0 { 2.5 } else { 1.3 };
+        out.push(Item::Line { from: Point::new(x, y), to: Point::new(x, y + len), stroke: Stroke::solid(0.2) });
+    }
+    out.push(text(Point::new(x0, y + 3.6), &t.common.scale_check, 7.0, Weight::Bold, Anchor::Start));
+    out.push(text(Point::new(x0, y - 3.6), &t.common.scale_hint, 6.5, Weight::Regular, Anchor::Start));
+    let vx = r.max.x - 3.0;
+    let vy0 = r.min.y + 4.0;
+    out.push(Item::Line { from: Point::new(vx, vy0), to: Point::new(vx, vy0 + 50.0), stroke: bar });
+    for k in 0..=5 {
+        let yy = vy0 + 10.0 * f64::from(k);
+        out.push(Item::Line { from: Point::new(vx, yy), to: Point::new(vx - 2.0, yy), stroke: Stroke::solid(0.2) });
+    }
+    out.push(Item::Text {
+        at: Point::new(vx - 3.0, vy0 + 25.0),
+        text: t.common.scale_check_vertical.clone(),
+        size_pt: 7.0,
+        weight: Weight::Bold,
+        anchor: Anchor::Middle,
+        rotate_deg: 90.0,
+        gray: 0.0,
+    });
+    let upper = Rect { min: Point::new(r.min.x, y + 8.0), max: Point::new(vx - 6.0, r.max.y) };
+    if tile.1.pages() > 1 {
+        out.extend(tile_map(tile.0, tile.1, &upper));
+    } else if role == Role::Key && upper.height() > 20.0 {
+        out.extend(plot::aberration_plot(p, upper));
+    } else if role == Role::Student && p.kind == SheetKind::Focal {
+        let msg = if p.is_diverging() { "Virtual focus you found: ______ mm before the exit face" } else { "Where the rays meet: ______ mm from the exit face" };
+        out.push(text(Point::new(upper.min.x, upper.min.y + 6.0), msg, BODY_PT, Weight::Regular, Anchor::Start));
+    }
+    out
+}
+
+fn tile_map(current: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
+    let mut out = Vec::new();
+    let cw = 14.0;
+    let ch = 9.0;
+    let x0 = r.min.x + 2.0;
+    let y_top = r.max.y - 8.0;
+    out.push(text(Point::new(x0, r.max.y - 3.5), "How the tiles join (this one shaded):", 7.0, Weight::Bold, Anchor::Start));
+    for row in 0..tiling.rows {
+        for col in 0..tiling.columns {
+            let n = row * tiling.columns + col;
+            let min = Point::new(x0 + col as f64 * (cw - 2.0), y_top - (row as f64 + 1.0) * (ch - 1.5));
+            let rect = Rect { min, max: Point::new(min.x + cw, min.y + ch) };
+            out.push(Item::Box { rect, fill: (n == current).then_some(0.8), stroke: Some(Stroke::solid(0.25)) });
+            out.push(text(Point::new(min.x + cw / 2.0, min.y + ch / 2.0 - 1.2), &format!("{}", n + 1), 7.0, Weight::Bold, Anchor::Middle));
+        }
+    }
+    out
+}

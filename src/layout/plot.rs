@@ -1,0 +1,128 @@
+//! The key's small plot of crossing position against guide height
+//! (spherical aberration), from the exact trace.
+
+use super::text::text;
+use crate::geom::Point;
+use crate::optics::{Outcome, trace_parallel};
+use crate::plan::SheetPlan;
+use crate::scene::{Anchor, Dash, Item, MarkerShape, Rect, Stroke, Weight};
+
+/// A step for axis ticks: 1, 2 or 5 × 10^k giving about `n` ticks over `span`.
+fn nice_step(span: f64, n: f64) -> f64 {
+    let raw = (span / n).max(1e-9);
+    let mag = 10f64.powf(raw.log10().floor());
+    let f = raw / mag;
+    let m = if f <= 1.0 {
+        1.0
+    } else if f <= 2.0 {
+        2.0
+    } else if f <= 5.0 {
+        5.0
+    } else {
+        10.0
+    };
+    m * mag
+}
+
+/// Plot items inside `area` (page mm). Distances on the vertical axis are
+/// from the exit vertex (negative for virtual crossings, plotted as their size).
+pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
+    let mut items = Vec::new();
+    let o = &plan.outline;
+    let t = o.t();
+    let top_h = plan.band.as_ref().map(|b| b.max_mm).unwrap_or(o.a() * 0.6).min(o.a());
+    let n = 48;
+    let mut pts: Vec<(f64, f64)> = Vec::new();
+    for k in 1..=n {
+        let h = top_h * f64::from(k) / f64::from(n);
+        if let Outcome::Crosses { x_mm } | Outcome::Virtual { x_mm } = trace_parallel(o, h, 10.0).outcome {
+            pts.push((h, (x_mm - t).abs()));
+        }
+    }
+    let parax = plan.paraxial.bfl_mm().map(f64::abs);
+    if pts.is_empty() {
+        return items;
+    }
+    let (mut y0, mut y1) = pts.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.1), b.max(p.1)));
+    if let Some(p) = parax {
+        y0 = y0.min(p);
+        y1 = y1.max(p);
+    }
+    let ystep = nice_step(y1 - y0, 4.0);
+    y0 = (y0 / ystep).floor() * ystep;
+    y1 = ((y1 / ystep).ceil() * ystep).max(y0 + ystep);
+    let xstep = nice_step(top_h, 4.0);
+    let x1 = (top_h / xstep).ceil() * xstep;
+    // Inner plot box, leaving room for tick labels and titles.
+    let inner = Rect { min: Point::new(area.min.x + 9.0, area.min.y + 8.0), max: Point::new(area.max.x - 2.0, area.max.y - 6.0) };
+    let map = |h: f64, d: f64| {
+        Point::new(
+            inner.min.x + h / x1 * inner.width(),
+            inner.min.y + (d - y0) / (y1 - y0) * inner.height(),
+        )
+    };
+    let frame = Stroke::solid(0.2);
+    items.push(Item::Box { rect: inner, fill: None, stroke: Some(frame) });
+    let mut v = 0.0;
+    while v <= x1 + 1e-9 {
+        let p = map(v, y0);
+        items.push(Item::Line { from: p, to: Point::new(p.x, p.y - 1.0), stroke: frame });
+        items.push(text(Point::new(p.x, p.y - 3.6), &format!("{v:.0}"), 6.0, Weight::Regular, Anchor::Middle));
+        v += xstep;
+    }
+    let mut v = y0;
+    while v <= y1 + 1e-9 {
+        let p = map(0.0, v);
+        items.push(Item::Line { from: p, to: Point::new(p.x - 1.0, p.y), stroke: frame });
+        items.push(text(Point::new(p.x - 1.5, p.y - 0.8), &format!("{v:.0}"), 6.0, Weight::Regular, Anchor::End));
+        v += ystep;
+    }
+    if let Some(p) = parax {
+        items.push(Item::Line {
+            from: map(0.0, p),
+            to: map(x1, p),
+            stroke: Stroke::solid(0.2).gray(0.35).dashed(Dash::Dashed { on_mm: 1.5, off_mm: 1.0 }),
+        });
+        let at = map(x1, p);
+        let below = p > (y0 + y1) / 2.0;
+        let dy = if below { -2.8 } else { 1.0 };
+        items.push(text(Point::new(at.x - 1.0, at.y + dy), "paraxial", 6.0, Weight::Regular, Anchor::End));
+    }
+    items.push(Item::Polyline { points: pts.iter().map(|&(h, d)| map(h, d)).collect(), closed: false, stroke: Stroke::solid(0.35) });
+    for r in &plan.rays {
+        if let Some(x) = r.crossing_from_exit_mm {
+            let h = r.height_mm.abs();
+            if h <= x1 && h > 0.0 {
+                items.push(Item::Marker { at: map(h, x.abs()), shape: MarkerShape::Dot, size_mm: 1.4, stroke: Stroke::solid(0.2) });
+            }
+        }
+    }
+    items.push(text(
+        Point::new(inner.min.x, area.max.y - 3.5),
+        "Crossing vs guide height (spherical aberration)",
+        7.0,
+        Weight::Bold,
+        Anchor::Start,
+    ));
+    items.push(text(Point::new((inner.min.x + inner.max.x) / 2.0, area.min.y + 1.0), "guide height, mm from the axis", 6.0, Weight::Regular, Anchor::Middle));
+    items.push(Item::Text {
+        at: Point::new(area.min.x + 1.8, (inner.min.y + inner.max.y) / 2.0),
+        text: "mm from exit face".into(),
+        size_pt: 6.0,
+        weight: Weight::Regular,
+        anchor: Anchor::Middle,
+        rotate_deg: 90.0,
+        gray: 0.0,
+    });
+    items
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn nice_steps() {
+        assert_eq!(super::nice_step(37.0, 4.0), 10.0);
+        assert_eq!(super::nice_step(7.0, 4.0), 2.0);
+        assert_eq!(super::nice_step(18.0, 4.0), 5.0);
+    }
+}
