@@ -234,8 +234,9 @@ fn text(
     };
     el.assign("text-anchor", anchor);
     // Layout measures text without kerning, and the PDF places glyphs by their
-    // advances alone: keep SVG viewers from kerning so anchors agree.
-    el.assign("font-kerning", "none");
+    // advances alone: keep SVG viewers from kerning so anchors agree. A CSS
+    // property, not a presentation attribute, hence `style`.
+    el.assign("style", "font-kerning:none");
     el.assign("fill", hex_gray(gray));
     if rotate_deg != 0.0 {
         // Counterclockwise on the page (y up) is a negative angle in SVG (y down).
