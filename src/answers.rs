@@ -4,6 +4,11 @@ use serde::Serialize;
 
 use crate::plan::SheetPlan;
 
+/// −0.0 written as 0.0 (adding +0.0 does exactly that in IEEE 754).
+fn z(v: Option<f64>) -> Option<f64> {
+    v.map(|x| x + 0.0)
+}
+
 /// Version of the answer-file layout.
 pub const FORMAT: u32 = 1;
 
@@ -64,6 +69,7 @@ struct RayOut {
     #[serde(skip_serializing_if = "Option::is_none")]
     trace_back_points_mm: Option<[[f64; 2]; 2]>,
     in_safe_band: bool,
+    graded: bool,
 }
 
 /// The answer file for `plans` as pretty JSON (fields in a fixed order, values
@@ -80,12 +86,12 @@ pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> Strin
             variant: p.variant.as_deref(),
             index: p.outline.piece.index(),
             paraxial: ParaxialOut {
-                thin_lens_focal_mm: p.paraxial.thin_lens_focal_mm(),
-                efl_mm: p.paraxial.efl_mm(),
-                bfl_mm: p.paraxial.bfl_mm(),
-                front_focal_mm: p.paraxial.front_focal_mm(),
-                front_principal_plane_mm: p.paraxial.front_principal_mm(),
-                rear_principal_plane_mm: p.paraxial.rear_principal_mm(),
+                thin_lens_focal_mm: z(p.paraxial.thin_lens_focal_mm()),
+                efl_mm: z(p.paraxial.efl_mm()),
+                bfl_mm: z(p.paraxial.bfl_mm()),
+                front_focal_mm: z(p.paraxial.front_focal_mm()),
+                front_principal_plane_mm: z(p.paraxial.front_principal_mm()),
+                rear_principal_plane_mm: z(p.paraxial.rear_principal_mm()),
             },
             safe_band_mm: p.band.as_ref().map(|b| BandOut {
                 min: b.min_mm,
@@ -97,15 +103,16 @@ pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> Strin
                 .rays
                 .iter()
                 .map(|r| RayOut {
-                    height_mm: r.height_mm,
+                    height_mm: r.height_mm + 0.0,
                     outcome: r.trace.outcome.as_str(),
-                    crossing_from_entry_mm: r.crossing_from_entry_mm,
-                    crossing_from_exit_mm: r.crossing_from_exit_mm,
+                    crossing_from_entry_mm: z(r.crossing_from_entry_mm),
+                    crossing_from_exit_mm: z(r.crossing_from_exit_mm),
                     exit_face: r.exit_face,
                     exit_angle_deg: r.exit_angle_deg,
                     tolerance_mm: r.tolerance_mm,
                     trace_back_points_mm: r.trace_back.map(|[a, b]| [[a.x, a.y], [b.x, b.y]]),
                     in_safe_band: r.in_band,
+                    graded: r.graded,
                 })
                 .collect(),
             warnings: &p.warnings,

@@ -47,7 +47,13 @@ impl From<RenderError> for BuildError {
     }
 }
 
-fn scene_files(scene: &Scene, prefix: &str, pdf_name: &str, formats: Formats, out: &mut Vec<Output>) -> Result<(), BuildError> {
+fn scene_files(
+    scene: &Scene,
+    prefix: &str,
+    pdf_name: &str,
+    formats: Formats,
+    out: &mut Vec<Output>,
+) -> Result<(), BuildError> {
     if formats.pdf {
         out.push(Output { path: format!("{prefix}{pdf_name}"), bytes: render_pdf(scene)? });
     }
@@ -61,13 +67,22 @@ fn scene_files(scene: &Scene, prefix: &str, pdf_name: &str, formats: Formats, ou
 }
 
 /// Builds the student sheets, keys and answer file for already-made plans.
-pub fn build_plans(kit: &Kit, plans: &[SheetPlan], paper: &PaperSpec, formats: Formats, seed: Option<u64>) -> Result<Vec<Output>, BuildError> {
+pub fn build_plans(
+    kit: &Kit,
+    plans: &[SheetPlan],
+    paper: &PaperSpec,
+    formats: Formats,
+    seed: Option<u64>,
+) -> Result<Vec<Output>, BuildError> {
     let templates = Templates::shipped().map_err(BuildError::Templates)?;
     let set = layout::layout(&kit.title, plans, paper, &templates);
     let mut out = Vec::new();
     scene_files(&set.sheets, "", "sheets.pdf", formats, &mut out)?;
     scene_files(&set.keys, "", "keys.pdf", formats, &mut out)?;
-    out.push(Output { path: "answers.json".into(), bytes: answers::to_json(&kit.title, seed, plans).into_bytes() });
+    out.push(Output {
+        path: "answers.json".into(),
+        bytes: answers::to_json(&kit.title, seed, plans).into_bytes(),
+    });
     Ok(out)
 }
 
@@ -76,16 +91,26 @@ pub const MAX_PAGES: usize = 2000;
 
 /// Builds a class set: per-group folders with sheets, keys and SVGs; every
 /// group's sheets and keys in one PDF each; the summary; the answer file.
-pub fn build_class(kit: &Kit, class: &ClassPlan, paper: &PaperSpec, formats: Formats) -> Result<Vec<Output>, BuildError> {
+pub fn build_class(
+    kit: &Kit,
+    class: &ClassPlan,
+    paper: &PaperSpec,
+    formats: Formats,
+) -> Result<Vec<Output>, BuildError> {
     let templates = Templates::shipped().map_err(BuildError::Templates)?;
-    let mut all_sheets = Scene { title: format!("{}: student sheets, all groups", kit.title), pages: Vec::new() };
+    let mut all_sheets =
+        Scene { title: format!("{}: student sheets, all groups", kit.title), pages: Vec::new() };
     let mut all_keys = Scene { title: format!("{}: answer keys, all groups", kit.title), pages: Vec::new() };
     let mut out = Vec::new();
     for (group, plans) in class.groups.iter().zip(&class.plans) {
-        let set = layout::layout(&format!("{}", kit.title), plans, paper, &templates);
+        let set = layout::layout(&kit.title, plans, paper, &templates);
         let prefix = format!("groups/{}/", group.folder);
-        let sheets = Scene { title: format!("{}: {}: student sheets", kit.title, group.name), pages: set.sheets.pages };
-        let keys = Scene { title: format!("{}: {}: answer keys", kit.title, group.name), pages: set.keys.pages };
+        let sheets = Scene {
+            title: format!("{}: {}: student sheets", kit.title, group.name),
+            pages: set.sheets.pages,
+        };
+        let keys =
+            Scene { title: format!("{}: {}: answer keys", kit.title, group.name), pages: set.keys.pages };
         if all_sheets.pages.len() + sheets.pages.len() + all_keys.pages.len() + keys.pages.len() > MAX_PAGES {
             return Err(BuildError::TooLarge(format!(
                 "this class set would need more than {MAX_PAGES} pages; make fewer groups or fewer sheets"
@@ -104,6 +129,9 @@ pub fn build_class(kit: &Kit, class: &ClassPlan, paper: &PaperSpec, formats: For
     }
     out.push(Output { path: "summary.csv".into(), bytes: crate::summary::summary_csv(class).into_bytes() });
     let flat: Vec<SheetPlan> = class.plans.iter().flatten().cloned().collect();
-    out.push(Output { path: "answers.json".into(), bytes: answers::to_json(&kit.title, Some(class.seed), &flat).into_bytes() });
+    out.push(Output {
+        path: "answers.json".into(),
+        bytes: answers::to_json(&kit.title, Some(class.seed), &flat).into_bytes(),
+    });
     Ok(out)
 }

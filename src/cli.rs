@@ -127,7 +127,11 @@ pub fn parse_formats(s: &str) -> Result<Formats, UsageError> {
         match part.to_ascii_lowercase().as_str() {
             "pdf" => f.pdf = true,
             "svg" => f.svg = true,
-            other => return Err(UsageError(format!("--format: \"{other}\" is not a format; give pdf, svg or pdf,svg"))),
+            other => {
+                return Err(UsageError(format!(
+                    "--format: \"{other}\" is not a format; give pdf, svg or pdf,svg"
+                )));
+            }
         }
     }
     if !f.pdf && !f.svg {
@@ -148,7 +152,9 @@ pub fn resolve_paper(kit_paper: &PaperSpec, args: &PaperArgs) -> Result<PaperSpe
                     .split_once('x')
                     .and_then(|(w, h)| Some((w.trim().parse().ok()?, h.trim().parse().ok()?)));
                 match dims {
-                    Some((w, h)) if w.is_finite() && h.is_finite() && w > 0.0 && h > 0.0 && w.max(h) <= 2000.0 => {
+                    Some((w, h))
+                        if w.is_finite() && h.is_finite() && w > 0.0 && h > 0.0 && w.max(h) <= 2000.0 =>
+                    {
                         PaperSize::custom(w, h)
                     }
                     _ => {
@@ -162,8 +168,11 @@ pub fn resolve_paper(kit_paper: &PaperSpec, args: &PaperArgs) -> Result<PaperSpe
         };
     }
     if let Some(o) = &args.orientation {
-        spec.orientation = Orientation::parse(o)
-            .ok_or_else(|| UsageError(format!("--orientation: \"{o}\" is not an orientation; give portrait, landscape or auto")))?;
+        spec.orientation = Orientation::parse(o).ok_or_else(|| {
+            UsageError(format!(
+                "--orientation: \"{o}\" is not an orientation; give portrait, landscape or auto"
+            ))
+        })?;
     }
     if let Some(m) = args.margin {
         spec.margin_mm = m;
@@ -187,11 +196,16 @@ mod tests {
     #[test]
     fn paper_flags_override_the_kit() {
         let base = PaperSpec::default();
-        let args = PaperArgs { paper: Some("letter".into()), orientation: Some("portrait".into()), margin: Some(12.0) };
+        let args = PaperArgs {
+            paper: Some("letter".into()),
+            orientation: Some("portrait".into()),
+            margin: Some(12.0),
+        };
         let p = resolve_paper(&base, &args).unwrap();
         assert_eq!(p.size.name, "Letter");
         assert_eq!(p.orientation, Orientation::Portrait);
-        let custom = resolve_paper(&base, &PaperArgs { paper: Some("350x250".into()), ..Default::default() }).unwrap();
+        let custom =
+            resolve_paper(&base, &PaperArgs { paper: Some("350x250".into()), ..Default::default() }).unwrap();
         assert_eq!((custom.size.width_mm, custom.size.height_mm), (250.0, 350.0));
         assert!(resolve_paper(&base, &PaperArgs { paper: Some("B5".into()), ..Default::default() }).is_err());
         assert!(resolve_paper(&base, &PaperArgs { margin: Some(60.0), ..Default::default() }).is_err());

@@ -65,10 +65,8 @@ pub fn units_per_em(weight: Weight) -> u16 {
 /// font lacks count as the width of the missing-glyph box).
 pub fn text_width_mm(text: &str, size_pt: f64, weight: Weight) -> f64 {
     let upem = f64::from(units_per_em(weight));
-    let units: f64 = text
-        .chars()
-        .map(|ch| f64::from(advance_units(weight, glyph_id(weight, ch).unwrap_or(0))))
-        .sum();
+    let units: f64 =
+        text.chars().map(|ch| f64::from(advance_units(weight, glyph_id(weight, ch).unwrap_or(0)))).sum();
     units / upem * size_pt * MM_PER_PT
 }
 

@@ -8,7 +8,7 @@ use std::process::ExitCode;
 mod write;
 
 use clap::Parser;
-use raysheet::cli::{Cli, ClassArgs, Command, OutArgs, PaperArgs, UsageError, parse_formats, resolve_paper};
+use raysheet::cli::{ClassArgs, Cli, Command, OutArgs, PaperArgs, UsageError, parse_formats, resolve_paper};
 use raysheet::kit::{Groups, Kit};
 use raysheet::{answers, demo, plan, report};
 
@@ -28,15 +28,20 @@ impl From<UsageError> for Failure {
 
 fn read_kit(path: &Path) -> Result<Kit, Failure> {
     let name = path.display().to_string();
-    let bytes = std::fs::read(path).map_err(|e| Failure::Input(format!("{name}: cannot read the kit file: {e}")))?;
+    let bytes =
+        std::fs::read(path).map_err(|e| Failure::Input(format!("{name}: cannot read the kit file: {e}")))?;
     let text = String::from_utf8(bytes).map_err(|e| {
-        Failure::Input(format!("{name}: the kit file is not UTF-8 text (bad byte at offset {}); save it as UTF-8", e.utf8_error().valid_up_to()))
+        Failure::Input(format!(
+            "{name}: the kit file is not UTF-8 text (bad byte at offset {}); save it as UTF-8",
+            e.utf8_error().valid_up_to()
+        ))
     })?;
     Kit::from_toml(&text, &name).map_err(|e| Failure::Input(e.to_string()))
 }
 
 fn demo_kit() -> Result<Kit, Failure> {
-    Kit::from_toml(demo::DEMO_KIT, demo::DEMO_NAME).map_err(|e| Failure::Other(format!("the embedded demo kit is invalid: {e}")))
+    Kit::from_toml(demo::DEMO_KIT, demo::DEMO_NAME)
+        .map_err(|e| Failure::Other(format!("the embedded demo kit is invalid: {e}")))
 }
 
 fn solve(kit: &Kit, paper_args: &PaperArgs, class: &ClassArgs, json: bool) -> Result<(), Failure> {
@@ -62,7 +67,11 @@ fn solve(kit: &Kit, paper_args: &PaperArgs, class: &ClassArgs, json: bool) -> Re
 }
 
 /// The class plan when the kit or the command line asks for groups.
-fn class_plan(kit: &Kit, paper: &raysheet::paper::PaperSpec, class: &ClassArgs) -> Result<Option<plan::ClassPlan>, Failure> {
+fn class_plan(
+    kit: &Kit,
+    paper: &raysheet::paper::PaperSpec,
+    class: &ClassArgs,
+) -> Result<Option<plan::ClassPlan>, Failure> {
     let Some(names) = resolve_groups(kit, class)? else { return Ok(None) };
     let seed = class.seed.or(kit.class.seed).unwrap_or(DEFAULT_SEED);
     let folders = plan::folder_names(&names);
@@ -77,9 +86,13 @@ const DEFAULT_SEED: u64 = 1;
 fn resolve_groups(kit: &Kit, class: &ClassArgs) -> Result<Option<Vec<String>>, Failure> {
     if let Some(path) = &class.roster {
         let name = path.display().to_string();
-        let bytes = std::fs::read(path).map_err(|e| Failure::Input(format!("{name}: cannot read the roster: {e}")))?;
+        let bytes = std::fs::read(path)
+            .map_err(|e| Failure::Input(format!("{name}: cannot read the roster: {e}")))?;
         let text = String::from_utf8(bytes).map_err(|e| {
-            Failure::Input(format!("{name}: the roster is not UTF-8 text (bad byte at offset {}); save it as UTF-8 CSV", e.utf8_error().valid_up_to()))
+            Failure::Input(format!(
+                "{name}: the roster is not UTF-8 text (bad byte at offset {}); save it as UTF-8 CSV",
+                e.utf8_error().valid_up_to()
+            ))
         })?;
         return plan::parse_roster(&text, &name).map(Some).map_err(|e| Failure::Input(e.to_string()));
     }
@@ -90,20 +103,32 @@ fn resolve_groups(kit: &Kit, class: &ClassArgs) -> Result<Option<Vec<String>>, F
     })
 }
 
-fn build(kit: &Kit, dir: &Path, out: &OutArgs, paper_args: &PaperArgs, class: &ClassArgs) -> Result<(), Failure> {
+fn build(
+    kit: &Kit,
+    dir: &Path,
+    out: &OutArgs,
+    paper_args: &PaperArgs,
+    class: &ClassArgs,
+) -> Result<(), Failure> {
     let formats = parse_formats(&out.format)?;
     let paper = resolve_paper(&kit.paper, paper_args)?;
     let (files, warnings) = match class_plan(kit, &paper, class)? {
         None => {
             let plans = plan::plan_kit(kit, &paper);
-            let warnings: Vec<String> =
-                plans.iter().flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))).collect();
+            let warnings: Vec<String> = plans
+                .iter()
+                .flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number)))
+                .collect();
             (raysheet::build::build_plans(kit, &plans, &paper, formats, class.seed), warnings)
         }
         Some(cp) => {
             let mut warnings = cp.notes.clone();
             if let Some(first) = cp.plans.first() {
-                warnings.extend(first.iter().flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))));
+                warnings.extend(
+                    first
+                        .iter()
+                        .flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))),
+                );
             }
             (raysheet::build::build_class(kit, &cp, &paper, formats), warnings)
         }
@@ -149,7 +174,9 @@ fn run(cli: Cli) -> Result<(), Failure> {
         Command::Solve { kit, json, paper, class } => solve(&read_kit(&kit)?, &paper, &class, json),
         Command::Build { kit, out, paper, class } => {
             let kit = read_kit(&kit)?;
-            let dir = out.out.clone().ok_or_else(|| Failure::Input("build needs --out DIR: the folder to write the sheets into".into()))?;
+            let dir = out.out.clone().ok_or_else(|| {
+                Failure::Input("build needs --out DIR: the folder to write the sheets into".into())
+            })?;
             build(&kit, &dir, &out, &paper, &class)
         }
         Command::Demo { out, print_kit, class } => {

@@ -103,12 +103,14 @@ impl PaperSpec {
     pub fn check(&self) -> Result<(), String> {
         let m = self.margin_mm;
         if !(m.is_finite() && m >= 0.0) {
-            return Err(format!("margin {m} mm must be a number of millimetres, 0 or more (10 is a safe default)"));
+            return Err(format!(
+                "margin {m} mm must be a number of millimetres, 0 or more (10 is a safe default)"
+            ));
         }
         let short = self.size.width_mm - 2.0 * m;
         if short < MIN_PRINTABLE_MM {
             return Err(format!(
-                "a {m} mm margin on {} paper ({} × {} mm) leaves {short:.1} mm of printable width; at least {MIN_PRINTABLE_MM} mm is needed, so use a margin of at most {:.1} mm or larger paper",
+                "a margin of {m} mm on {} paper ({} × {} mm) leaves {short:.1} mm of printable width; at least {MIN_PRINTABLE_MM} mm is needed, so use a margin of at most {:.1} mm or larger paper",
                 self.size.name,
                 self.size.width_mm,
                 self.size.height_mm,

@@ -8,7 +8,8 @@ use crate::plan::{SheetPlan, fmt_mm};
 
 fn opt(v: Option<f64>) -> String {
     // Adding 0.0 turns −0.0 into 0.0; values that round to zero print unsigned.
-    v.map(|x| if x.abs() < 0.005 { "0.00".to_string() } else { format!("{:.2}", x + 0.0) }).unwrap_or_else(|| "none".into())
+    v.map(|x| if x.abs() < 0.005 { "0.00".to_string() } else { format!("{:.2}", x + 0.0) })
+        .unwrap_or_else(|| "none".into())
 }
 
 /// The pieces table: faces, sizes, index, edge thickness, focal lengths.
@@ -18,7 +19,7 @@ pub fn pieces_table(kit: &Kit) -> String {
     let _ = writeln!(
         s,
         "  {:<10} {:<28} {:>7} {:>7} {:>8} {:>6} {:>11} {:>9} {:>12}",
-        "id", "front / back", "t mm", "H mm", "edge mm", "n", "thin f mm", "EFL mm", "BFL mm (fr.)"
+        "id", "front / back", "t mm", "H mm", "edge mm", "n", "thin f mm", "EFL mm", "BFL mm"
     );
     for p in &kit.pieces {
         let px = Paraxial::of(&p.piece, Entry::Front);
@@ -36,6 +37,10 @@ pub fn pieces_table(kit: &Kit) -> String {
             opt(px.bfl_mm()),
         );
     }
+    let _ = writeln!(
+        s,
+        "  (BFL for light entering the front face; each sheet below gives the values for its own entry side)"
+    );
     s
 }
 
@@ -55,14 +60,17 @@ pub fn sheet_table(p: &SheetPlan) -> String {
         p.entry.as_str()
     );
     let px = &p.paraxial;
-    let _ = writeln!(s, "  thin-lens focal length (lens maker's formula): {} mm", opt(px.thin_lens_focal_mm()));
-    let _ = writeln!(
-        s,
-        "  thick piece: EFL {} mm, BFL {} mm from the exit vertex, front focal distance {} mm before the entry vertex",
-        opt(px.efl_mm()),
-        opt(px.bfl_mm()),
-        opt(px.front_focal_mm())
-    );
+    let _ =
+        writeln!(s, "  thin-lens focal length (lens maker's formula): {} mm", opt(px.thin_lens_focal_mm()));
+    let front = match px.front_focal_mm() {
+        Some(d) if d < 0.0 => format!("{} mm after the entry vertex (virtual)", opt(Some(-d))),
+        d => format!("{} mm before the entry vertex", opt(d)),
+    };
+    let back = match px.bfl_mm() {
+        Some(b) if b < 0.0 => format!("{} mm before the exit vertex (virtual)", opt(Some(-b))),
+        b => format!("{} mm after the exit vertex", opt(b)),
+    };
+    let _ = writeln!(s, "  thick piece: EFL {} mm; rear focus {back}; front focus {front}", opt(px.efl_mm()));
     let _ = writeln!(
         s,
         "  principal planes: front {} mm from the entry vertex, rear {} mm from the exit vertex",
@@ -81,8 +89,8 @@ pub fn sheet_table(p: &SheetPlan) -> String {
     }
     let _ = writeln!(
         s,
-        "  {:>9}  {:<26} {:>12} {:>11} {:>9} {:>8}  {}",
-        "height mm", "outcome", "from entry", "from exit", "angle °", "± mm", "exit face"
+        "  {:>9}  {:<26} {:>12} {:>11} {:>9} {:>8}  exit face",
+        "height mm", "outcome", "from entry", "from exit", "angle °", "± mm"
     );
     for r in &p.rays {
         let _ = writeln!(

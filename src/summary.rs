@@ -13,8 +13,22 @@ fn num(v: Option<f64>) -> String {
 
 /// Column headings of `summary.csv`.
 pub const COLUMNS: &[&str] = &[
-    "group", "variant", "sheet", "kind", "piece", "enter", "ray", "height_mm", "outcome",
-    "crossing_from_entry_mm", "crossing_from_exit_mm", "tolerance_mm", "thin_lens_focal_mm", "efl_mm", "bfl_mm",
+    "group",
+    "variant",
+    "sheet",
+    "kind",
+    "piece",
+    "enter",
+    "ray",
+    "height_mm",
+    "outcome",
+    "crossing_from_entry_mm",
+    "crossing_from_exit_mm",
+    "tolerance_mm",
+    "graded",
+    "thin_lens_focal_mm",
+    "efl_mm",
+    "bfl_mm",
 ];
 
 /// The summary rows as CSV text (UTF-8, comma-separated, values in mm to 0.001).
@@ -38,6 +52,7 @@ pub fn summary_csv(class: &ClassPlan) -> String {
                     num(r.crossing_from_entry_mm),
                     num(r.crossing_from_exit_mm),
                     num(r.tolerance_mm),
+                    r.graded.to_string(),
                     num(p.paraxial.thin_lens_focal_mm()),
                     num(p.paraxial.efl_mm()),
                     num(p.paraxial.bfl_mm()),

@@ -24,7 +24,9 @@ fn io(path: &Path, what: &str, e: std::io::Error) -> WriteError {
 }
 
 fn read_manifest(dir: &Path) -> BTreeSet<String> {
-    fs::read_to_string(dir.join(MANIFEST)).map(|s| s.lines().map(str::to_string).collect()).unwrap_or_default()
+    fs::read_to_string(dir.join(MANIFEST))
+        .map(|s| s.lines().map(str::to_string).collect())
+        .unwrap_or_default()
 }
 
 fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), WriteError> {
@@ -49,12 +51,18 @@ fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), WriteError> {
 /// file it would write exists and is not in the folder's manifest (unless `force`).
 pub fn write_all(dir: &Path, files: &[Output], force: bool) -> Result<Vec<PathBuf>, WriteError> {
     if dir.exists() && !dir.is_dir() {
-        return Err(WriteError::Refused(format!("{}: exists and is not a folder; give another --out", dir.display())));
+        return Err(WriteError::Refused(format!(
+            "{}: exists and is not a folder; give another --out",
+            dir.display()
+        )));
     }
     let ours = read_manifest(dir);
     if !force {
-        let clash: Vec<&str> =
-            files.iter().map(|f| f.path.as_str()).filter(|p| dir.join(p).exists() && !ours.contains(*p)).collect();
+        let clash: Vec<&str> = files
+            .iter()
+            .map(|f| f.path.as_str())
+            .filter(|p| dir.join(p).exists() && !ours.contains(*p))
+            .collect();
         if let Some(first) = clash.first() {
             return Err(WriteError::Refused(format!(
                 "{}: {} file(s) there were not written by raysheet (first: {first}); nothing was written. Use another --out folder, or --force to overwrite them",

@@ -30,7 +30,15 @@ impl fmt::Display for KitError {
         write!(f, "{}", self.message)?;
         if !self.source_line.is_empty() {
             let gutter = self.line.to_string().len();
-            write!(f, "\n{:gutter$} |\n{} | {}\n{:gutter$} | {}^", "", self.line, self.source_line, "", " ".repeat(self.column.saturating_sub(1)))?;
+            write!(
+                f,
+                "\n{:gutter$} |\n{} | {}\n{:gutter$} | {}^",
+                "",
+                self.line,
+                self.source_line,
+                "",
+                " ".repeat(self.column.saturating_sub(1))
+            )?;
         }
         if !self.hint.is_empty() {
             write!(f, "\n  hint: {}", self.hint)?;
@@ -62,7 +70,13 @@ impl Locator<'_> {
     }
 
     /// An error at byte `offset`.
-    pub fn error(&self, offset: usize, field: impl Into<String>, message: impl Into<String>, hint: impl Into<String>) -> KitError {
+    pub fn error(
+        &self,
+        offset: usize,
+        field: impl Into<String>,
+        message: impl Into<String>,
+        hint: impl Into<String>,
+    ) -> KitError {
         let (line, column) = self.line_col(offset);
         KitError {
             file: self.file.to_string(),

@@ -1,6 +1,10 @@
 //! The kit file: its TOML mirror and its validation into a normalized [`Kit`]:
 //! millimetres, defaults filled, names resolved. Nothing past this module sees
 //! TOML or a raw unit.
+#![expect(
+    clippy::result_large_err,
+    reason = "a kit error is made at most once per run and carries its whole location; boxing it buys nothing"
+)]
 
 mod error;
 mod raw;
@@ -175,13 +179,23 @@ fn de_error(loc: &Locator<'_>, e: &toml::de::Error) -> KitError {
             .map(|(_, k)| format!("did you mean `{k}`? "))
             .unwrap_or_default();
         let field = if inline { format!("{path}.{name}") } else { path };
-        return loc.error(offset, field, format!("unknown field `{name}`"), format!("{best}accepted here: {}", known.join(", ")));
+        return loc.error(
+            offset,
+            field,
+            format!("unknown field `{name}`"),
+            format!("{best}accepted here: {}", known.join(", ")),
+        );
     }
     if let Some(rest) = msg.strip_prefix("missing field `") {
         let name = rest.split('`').next().unwrap_or("");
         let table = loc.key_path_at(offset);
         let field = if table.is_empty() { name.to_string() } else { format!("{table}.{name}") };
-        return loc.error(offset, field, format!("missing field `{name}`"), format!("add `{name} = …` to this table"));
+        return loc.error(
+            offset,
+            field,
+            format!("missing field `{name}`"),
+            format!("add `{name} = …` to this table"),
+        );
     }
     // Choose the hint from what was expected, not from what was found: "invalid
     // type: integer `10`, expected a sequence" wants a list, not a whole number.
@@ -227,7 +241,13 @@ struct Validator<'a> {
 }
 
 impl Validator<'_> {
-    fn err<T>(&self, span: std::ops::Range<usize>, field: String, message: String, hint: &str) -> Result<T, KitError> {
+    fn err<T>(
+        &self,
+        span: std::ops::Range<usize>,
+        field: String,
+        message: String,
+        hint: &str,
+    ) -> Result<T, KitError> {
         Err(self.loc.error(span.start, field, message, hint))
     }
 
@@ -240,7 +260,12 @@ impl Validator<'_> {
         if x.is_finite() && x > 0.0 {
             Ok(x)
         } else {
-            self.err(v.span(), field, format!("{x} is not a usable {what}"), "give a finite number of millimetres above 0")
+            self.err(
+                v.span(),
+                field,
+                format!("{x} is not a usable {what}"),
+                "give a finite number of millimetres above 0",
+            )
         }
     }
 
@@ -289,7 +314,12 @@ impl Validator<'_> {
         if let Some(r) = raw.rays {
             let n = *r.get_ref();
             if !(1..=9).contains(&n) {
-                return self.err(r.span(), "ray_box.rays".into(), format!("{n} rays is not a ray box setting"), "give a whole number from 1 to 9");
+                return self.err(
+                    r.span(),
+                    "ray_box.rays".into(),
+                    format!("{n} rays is not a ray box setting"),
+                    "give a whole number from 1 to 9",
+                );
             }
             rb.rays = n as u32;
         }
@@ -311,7 +341,8 @@ impl Validator<'_> {
     }
 
     fn face(&self, v: &Spanned<toml::Value>, field: String) -> Result<Face, KitError> {
-        const HINT: &str = "give \"flat\" or { curve = \"convex\", radius_mm = 45 } (curve is \"convex\" or \"concave\")";
+        const HINT: &str =
+            "give \"flat\" or { curve = \"convex\", radius_mm = 45 } (curve is \"convex\" or \"concave\")";
         match v.get_ref() {
             toml::Value::String(s) if s == "flat" => Ok(Face::Flat),
             toml::Value::String(s) => self.err(v.span(), field, format!("\"{s}\" is not a face shape"), HINT),
@@ -325,39 +356,97 @@ impl Validator<'_> {
                         } else {
                             ""
                         };
-                        return self.err(v.span(), format!("{field}.{k}"), format!("unknown field `{k}` in a face"), &format!("{near}accepted here: curve, radius_mm"));
+                        return self.err(
+                            v.span(),
+                            format!("{field}.{k}"),
+                            format!("unknown field `{k}` in a face"),
+                            &format!("{near}accepted here: curve, radius_mm"),
+                        );
                     }
                 }
                 let curve = match t.get("curve") {
                     Some(toml::Value::String(c)) => c.as_str(),
-                    Some(other) => return self.err(v.span(), format!("{field}.curve"), format!("curve must be text, found {}", other.type_str()), HINT),
-                    None => return self.err(v.span(), format!("{field}.curve"), "missing field `curve`".into(), HINT),
+                    Some(other) => {
+                        return self.err(
+                            v.span(),
+                            format!("{field}.curve"),
+                            format!("curve must be text, found {}", other.type_str()),
+                            HINT,
+                        );
+                    }
+                    None => {
+                        return self.err(
+                            v.span(),
+                            format!("{field}.curve"),
+                            "missing field `curve`".into(),
+                            HINT,
+                        );
+                    }
                 };
                 let radius = match t.get("radius_mm") {
                     Some(toml::Value::Float(r)) => *r,
                     Some(toml::Value::Integer(r)) => *r as f64,
-                    Some(other) => return self.err(v.span(), format!("{field}.radius_mm"), format!("radius_mm must be a number, found {}", other.type_str()), HINT),
-                    None => return self.err(v.span(), format!("{field}.radius_mm"), "missing field `radius_mm`".into(), HINT),
+                    Some(other) => {
+                        return self.err(
+                            v.span(),
+                            format!("{field}.radius_mm"),
+                            format!("radius_mm must be a number, found {}", other.type_str()),
+                            HINT,
+                        );
+                    }
+                    None => {
+                        return self.err(
+                            v.span(),
+                            format!("{field}.radius_mm"),
+                            "missing field `radius_mm`".into(),
+                            HINT,
+                        );
+                    }
                 };
                 if !(radius.is_finite() && radius > 0.0) {
-                    return self.err(v.span(), format!("{field}.radius_mm"), format!("{radius} is not a usable radius"), "give a finite number of millimetres above 0");
+                    return self.err(
+                        v.span(),
+                        format!("{field}.radius_mm"),
+                        format!("{radius} is not a usable radius"),
+                        "give a finite number of millimetres above 0",
+                    );
                 }
                 match curve {
                     "convex" => Ok(Face::Convex { radius_mm: radius }),
                     "concave" => Ok(Face::Concave { radius_mm: radius }),
-                    other => self.err(v.span(), format!("{field}.curve"), format!("\"{other}\" is not a curve"), "give \"convex\" or \"concave\""),
+                    other => self.err(
+                        v.span(),
+                        format!("{field}.curve"),
+                        format!("\"{other}\" is not a curve"),
+                        "give \"convex\" or \"concave\"",
+                    ),
                 }
             }
-            other => self.err(v.span(), field, format!("a face must be text or a table, found {}", other.type_str()), HINT),
+            other => self.err(
+                v.span(),
+                field,
+                format!("a face must be text or a table, found {}", other.type_str()),
+                HINT,
+            ),
         }
     }
 
-    fn piece(&self, i: usize, sp: &Spanned<RawPiece>, materials: &BTreeMap<String, f64>) -> Result<KitPiece, KitError> {
+    fn piece(
+        &self,
+        i: usize,
+        sp: &Spanned<RawPiece>,
+        materials: &BTreeMap<String, f64>,
+    ) -> Result<KitPiece, KitError> {
         let p = sp.get_ref();
         let f = |name: &str| format!("pieces[{}].{name}", i + 1);
         let id = p.id.get_ref().trim().to_string();
         if id.is_empty() || !id.chars().all(|c| c.is_ascii_alphanumeric() || c == '-' || c == '_') {
-            return self.err(p.id.span(), f("id"), format!("`{}` is not a usable piece id", p.id.get_ref()), "use letters, digits, - and _ only, such as \"hd40\"");
+            return self.err(
+                p.id.span(),
+                f("id"),
+                format!("`{}` is not a usable piece id", p.id.get_ref()),
+                "use letters, digits, - and _ only, such as \"hd40\"",
+            );
         }
         let material = p.material.get_ref().clone();
         let Some(&index) = materials.get(&material) else {
@@ -367,7 +456,12 @@ impl Validator<'_> {
             } else {
                 format!("known materials: {}; or add a [materials.{material}] table", known.join(", "))
             };
-            return self.err(p.material.span(), f("material"), format!("material `{material}` is not defined"), &hint);
+            return self.err(
+                p.material.span(),
+                f("material"),
+                format!("material `{material}` is not defined"),
+                &hint,
+            );
         };
         let front = self.face(&p.front, f("front"))?;
         let back = self.face(&p.back, f("back"))?;
@@ -376,16 +470,23 @@ impl Validator<'_> {
         let piece = Piece::new(front, back, thickness, height, index).map_err(|e| {
             use crate::optics::PieceError as E;
             let (span, field) = match &e {
-                E::RadiusBelowHalfHeight { face, .. } | E::Radius { face, .. } => {
-                    (if *face == "front" { p.front.span() } else { p.back.span() }, f(&format!("{face}.radius_mm")))
-                }
+                E::RadiusBelowHalfHeight { face, .. } | E::Radius { face, .. } => (
+                    if *face == "front" { p.front.span() } else { p.back.span() },
+                    f(&format!("{face}.radius_mm")),
+                ),
                 E::NegativeEdge { .. } | E::Thickness(_) => (p.thickness_mm.span(), f("thickness_mm")),
                 E::Height(_) => (p.height_mm.span(), f("height_mm")),
                 E::Index(_) => (p.material.span(), f("material")),
             };
             self.loc.error(span.start, field, e.problem(), e.advice())
         })?;
-        Ok(KitPiece { id, label: p.label.as_ref().map(|l| l.get_ref().clone()), material, piece, line: self.line(&sp.span()) })
+        Ok(KitPiece {
+            id,
+            label: p.label.as_ref().map(|l| l.get_ref().clone()),
+            material,
+            piece,
+            line: self.line(&sp.span()),
+        })
     }
 
     fn sheet(&self, i: usize, ss: &Spanned<RawSheet>, pieces: &[KitPiece]) -> Result<SheetSpec, KitError> {
@@ -394,19 +495,40 @@ impl Validator<'_> {
         let kind = match s.kind.get_ref().as_str() {
             "curved-face" => SheetKind::CurvedFace,
             "focal" => SheetKind::Focal,
-            other => return self.err(s.kind.span(), f("kind"), format!("\"{other}\" is not a sheet kind"), "give \"curved-face\" or \"focal\""),
+            other => {
+                return self.err(
+                    s.kind.span(),
+                    f("kind"),
+                    format!("\"{other}\" is not a sheet kind"),
+                    "give \"curved-face\" or \"focal\"",
+                );
+            }
         };
         let Some(pi) = pieces.iter().position(|p| &p.id == s.piece.get_ref()) else {
             let ids: Vec<&str> = pieces.iter().map(|p| p.id.as_str()).collect();
-            let hint = if ids.is_empty() { "the kit has no [[pieces]] yet".to_string() } else { format!("known pieces: {}", ids.join(", ")) };
-            return self.err(s.piece.span(), f("piece"), format!("no piece has id `{}`", s.piece.get_ref()), &hint);
+            let hint = if ids.is_empty() {
+                "the kit has no [[pieces]] yet".to_string()
+            } else {
+                format!("known pieces: {}", ids.join(", "))
+            };
+            return self.err(
+                s.piece.span(),
+                f("piece"),
+                format!("no piece has id `{}`", s.piece.get_ref()),
+                &hint,
+            );
         };
         let kp = &pieces[pi];
         let entry = match s.enter.as_ref().map(|e| e.get_ref().as_str()) {
             None | Some("front") => Entry::Front,
             Some("back") => Entry::Back,
             Some(other) => {
-                return self.err(s.enter.as_ref().map(|e| e.span()).unwrap_or(ss.span()), f("enter"), format!("\"{other}\" is not a side"), "give \"front\" or \"back\": the face the light meets first");
+                return self.err(
+                    s.enter.as_ref().map(|e| e.span()).unwrap_or(ss.span()),
+                    f("enter"),
+                    format!("\"{other}\" is not a side"),
+                    "give \"front\" or \"back\": the face the light meets first",
+                );
             }
         };
         let enter_span = s.enter.as_ref().map(|e| e.span()).unwrap_or(s.kind.span());
@@ -437,13 +559,27 @@ impl Validator<'_> {
             }
             SheetKind::Focal => {
                 if Paraxial::of(&kp.piece, entry).efl_mm().is_none() {
-                    return self.err(s.kind.span(), f("kind"), format!("piece `{}` has no focal length (both faces flat, or powers that cancel)", kp.id), "use a converging or diverging piece for a focal sheet");
+                    return self.err(
+                        s.kind.span(),
+                        f("kind"),
+                        format!(
+                            "piece `{}` has no focal length (both faces flat, or powers that cancel)",
+                            kp.id
+                        ),
+                        "use a converging or diverging piece for a focal sheet",
+                    );
                 }
             }
         }
         let vary_entry = s.vary_entry.as_ref().map(|v| *v.get_ref()).unwrap_or(false);
         if vary_entry && kind == SheetKind::CurvedFace {
-            return self.err(s.vary_entry.as_ref().map(|v| v.span()).unwrap_or(ss.span()), f("vary_entry"), "a curved-face sheet must be entered through its flat face, so the entry side cannot vary".into(), "remove vary_entry from this sheet");
+            return self.err(
+                s.vary_entry.as_ref().map(|v| v.span()).unwrap_or(ss.span()),
+                f("vary_entry"),
+                "a curved-face sheet must be entered through its flat face, so the entry side cannot vary"
+                    .into(),
+                "remove vary_entry from this sheet",
+            );
         }
         let heights = match &s.heights_mm {
             None => None,
@@ -454,7 +590,15 @@ impl Validator<'_> {
                     return self.err(list.span(), f("heights_mm"), "the list of guide heights is empty".into(), "give at least one height, such as [10, -10], or leave heights_mm out to have them chosen");
                 }
                 if list.get_ref().len() > 9 {
-                    return self.err(list.span(), f("heights_mm"), format!("{} guide heights is more than a sheet can show clearly", list.get_ref().len()), "give at most 9 heights");
+                    return self.err(
+                        list.span(),
+                        f("heights_mm"),
+                        format!(
+                            "{} guide heights is more than a sheet can show clearly",
+                            list.get_ref().len()
+                        ),
+                        "give at most 9 heights",
+                    );
                 }
                 for (j, h) in list.get_ref().iter().enumerate() {
                     let v = *h.get_ref();
@@ -471,7 +615,15 @@ impl Validator<'_> {
                 Some(out)
             }
         };
-        Ok(SheetSpec { number: i + 1, kind, piece: pi, entry, vary_entry, heights_mm: heights, line: self.line(&ss.span()) })
+        Ok(SheetSpec {
+            number: i + 1,
+            kind,
+            piece: pi,
+            entry,
+            vary_entry,
+            heights_mm: heights,
+            line: self.line(&ss.span()),
+        })
     }
 
     fn paper(&self, raw: Option<Spanned<raw::RawPaper>>) -> Result<PaperSpec, KitError> {
@@ -483,7 +635,14 @@ impl Validator<'_> {
             (Some(s), None, None) => {
                 spec.size = match PaperSize::named(s.get_ref()) {
                     Some(p) => p,
-                    None => return self.err(s.span(), "paper.size".into(), format!("\"{}\" is not a paper size", s.get_ref()), &format!("give one of {}, or width_mm and height_mm", PaperSize::names())),
+                    None => {
+                        return self.err(
+                            s.span(),
+                            "paper.size".into(),
+                            format!("\"{}\" is not a paper size", s.get_ref()),
+                            &format!("give one of {}, or width_mm and height_mm", PaperSize::names()),
+                        );
+                    }
                 };
             }
             (None, Some(w), Some(h)) => {
@@ -492,23 +651,43 @@ impl Validator<'_> {
                 spec.size = PaperSize::custom(w, h);
             }
             (None, None, None) => {}
-            (Some(s), _, _) => return self.err(s.span(), "paper.size".into(), "give either size or width_mm and height_mm, not both".into(), "remove one of them"),
+            (Some(s), _, _) => {
+                return self.err(
+                    s.span(),
+                    "paper.size".into(),
+                    "give either size or width_mm and height_mm, not both".into(),
+                    "remove one of them",
+                );
+            }
             (None, w, h) => {
                 let span = w.as_ref().map(|w| w.span()).or(h.as_ref().map(|h| h.span())).unwrap_or(whole);
-                return self.err(span, "paper".into(), "a custom paper size needs both width_mm and height_mm".into(), "add the missing one");
+                return self.err(
+                    span,
+                    "paper".into(),
+                    "a custom paper size needs both width_mm and height_mm".into(),
+                    "add the missing one",
+                );
             }
         }
         if let Some(o) = &raw.orientation {
             spec.orientation = match Orientation::parse(o.get_ref()) {
                 Some(o) => o,
-                None => return self.err(o.span(), "paper.orientation".into(), format!("\"{}\" is not an orientation", o.get_ref()), "give \"portrait\", \"landscape\" or \"auto\""),
+                None => {
+                    return self.err(
+                        o.span(),
+                        "paper.orientation".into(),
+                        format!("\"{}\" is not an orientation", o.get_ref()),
+                        "give \"portrait\", \"landscape\" or \"auto\"",
+                    );
+                }
             };
         }
         if let Some(m) = &raw.margin_mm {
             spec.margin_mm = *m.get_ref();
             if let Err(msg) = spec.check() {
                 let most = ((spec.size.width_mm - crate::paper::MIN_PRINTABLE_MM) / 2.0).max(0.0);
-                let hint = format!("give a margin from 0 to {most:.1} mm on this paper (10 mm suits most printers)");
+                let hint =
+                    format!("give a margin from 0 to {most:.1} mm on this paper (10 mm suits most printers)");
                 return self.err(m.span(), "paper.margin_mm".into(), msg, &hint);
             }
         }
@@ -529,26 +708,53 @@ impl Validator<'_> {
         let whole = raw.span();
         let raw = raw.into_inner();
         match (&raw.groups, &raw.names) {
-            (Some(_), Some(n)) => return self.err(n.span(), "class.names".into(), "give either groups or names, not both".into(), "names already sets the number of groups"),
+            (Some(_), Some(n)) => {
+                return self.err(
+                    n.span(),
+                    "class.names".into(),
+                    "give either groups or names, not both".into(),
+                    "names already sets the number of groups",
+                );
+            }
             (Some(g), None) => {
                 let n = *g.get_ref();
                 if !(1..=MAX_GROUPS as i64).contains(&n) {
-                    return self.err(g.span(), "class.groups".into(), format!("{n} groups is outside what raysheet makes"), &format!("give a whole number from 1 to {MAX_GROUPS}"));
+                    return self.err(
+                        g.span(),
+                        "class.groups".into(),
+                        format!("{n} groups is outside what raysheet makes"),
+                        &format!("give a whole number from 1 to {MAX_GROUPS}"),
+                    );
                 }
                 spec.groups = Groups::Count(n as usize);
             }
             (None, Some(names)) => {
                 if names.get_ref().is_empty() || names.get_ref().len() > MAX_GROUPS {
-                    return self.err(names.span(), "class.names".into(), format!("{} group names given", names.get_ref().len()), &format!("give from 1 to {MAX_GROUPS} names"));
+                    return self.err(
+                        names.span(),
+                        "class.names".into(),
+                        format!("{} group names given", names.get_ref().len()),
+                        &format!("give from 1 to {MAX_GROUPS} names"),
+                    );
                 }
                 let mut out: Vec<String> = Vec::new();
                 for (j, n) in names.get_ref().iter().enumerate() {
                     let name = n.get_ref().trim().to_string();
                     if let Some(msg) = crate::plan::group_name_problem(&name) {
-                        return self.err(n.span(), format!("class.names[{}]", j + 1), msg, "give a short printable name, such as \"Bench A\"");
+                        return self.err(
+                            n.span(),
+                            format!("class.names[{}]", j + 1),
+                            msg,
+                            "give a short printable name, such as \"Bench A\"",
+                        );
                     }
                     if out.contains(&name) {
-                        return self.err(n.span(), format!("class.names[{}]", j + 1), format!("group name \"{name}\" is given twice"), "give every group its own name");
+                        return self.err(
+                            n.span(),
+                            format!("class.names[{}]", j + 1),
+                            format!("group name \"{name}\" is given twice"),
+                            "give every group its own name",
+                        );
                     }
                     out.push(name);
                 }
@@ -559,14 +765,24 @@ impl Validator<'_> {
         if let Some(s) = &raw.seed {
             let v = *s.get_ref();
             if v < 0 {
-                return self.err(s.span(), "class.seed".into(), format!("seed {v} is negative"), "give a whole number, 0 or more, such as 2031");
+                return self.err(
+                    s.span(),
+                    "class.seed".into(),
+                    format!("seed {v} is negative"),
+                    "give a whole number, 0 or more, such as 2031",
+                );
             }
             spec.seed = Some(v as u64);
         }
         if let Some(g) = &raw.grid_mm {
             let v = *g.get_ref();
             if !(v.is_finite() && (0.1..=5.0).contains(&v)) {
-                return self.err(g.span(), "class.grid_mm".into(), format!("a {v} mm grid cannot be drawn with a ruler"), "give a step from 0.1 to 5 mm (0.5 is the default)");
+                return self.err(
+                    g.span(),
+                    "class.grid_mm".into(),
+                    format!("a {v} mm grid cannot be drawn with a ruler"),
+                    "give a step from 0.1 to 5 mm (0.5 is the default)",
+                );
             }
             spec.grid_mm = v;
         }

@@ -39,7 +39,12 @@ pub fn rays_top_down(plan: &SheetPlan) -> Vec<usize> {
 fn face_arc(outline: &Outline, b: Boundary, from: Point, to: Point) -> Option<OutlinePart> {
     let c = outline.center(b)?;
     let arc = Arc::short_way(c, from, to)?;
-    Some(OutlinePart::ArcTo { center: c, radius_mm: arc.radius, start_rad: arc.start_rad, sweep_rad: arc.sweep_rad })
+    Some(OutlinePart::ArcTo {
+        center: c,
+        radius_mm: arc.radius,
+        start_rad: arc.start_rad,
+        sweep_rad: arc.sweep_rad,
+    })
 }
 
 /// The piece outline as one closed figure: entry face top→bottom, bottom edge,
@@ -73,7 +78,8 @@ fn line(from: Point, to: Point, stroke: Stroke) -> Item {
 }
 
 fn place_label(d: &mut Drawing, bounds: &Rect, s: &str, size: f64, candidates: &[(Point, Anchor)]) {
-    let boxes: Vec<Rect> = candidates.iter().map(|(p, a)| text_box(*p, s, size, Weight::Regular, *a)).collect();
+    let boxes: Vec<Rect> =
+        candidates.iter().map(|(p, a)| text_box(*p, s, size, Weight::Regular, *a)).collect();
     let k = d.placer.choose(&boxes, bounds);
     let (p, a) = candidates[k];
     d.items.push(text(p, s, size, Weight::Regular, a));
@@ -105,21 +111,24 @@ pub fn student(plan: &SheetPlan) -> Drawing {
     let top = Point::new(lx, reach);
     d.items.push(line(Point::new(lx, -reach), top, Stroke::solid(THIN_W).dashed(LINE_DASH)));
     d.placer.block_line(Point::new(lx, -reach), top);
-    place_label(&mut d, &bounds, name, LABEL_PT, &[(Point::new(lx, reach + 1.2), Anchor::Middle), (Point::new(lx + 1.5, reach - 2.5), Anchor::Start)]);
-    // Between the ray box and the piece, where the key's crossings never fall.
-    let gap_mid = (s.x_min + 11.0 + o.entry_x(a).min(0.0)) / 2.0;
-    place_label(&mut d, &bounds, "optical axis", LABEL_PT, &[
-        (Point::new(gap_mid, -3.6), Anchor::Middle),
-        (Point::new(gap_mid, 1.4), Anchor::Middle),
-        (Point::new(s.x_max - 2.0, 1.4), Anchor::End),
-    ]);
+    place_label(
+        &mut d,
+        &bounds,
+        name,
+        LABEL_PT,
+        &[(Point::new(lx, reach + 1.2), Anchor::Middle), (Point::new(lx + 1.5, reach - 2.5), Anchor::Start)],
+    );
     // Ray box: where it stands.
     let hmax = plan.rays.iter().map(|r| r.height_mm.abs()).fold(0.0, f64::max);
     let box_half = (hmax + 6.0).min(s.y_half - 1.0).max(10.0);
     let bx0 = s.x_min + 1.0;
     let bx1 = bx0 + 9.0;
     let rb = Rect::from_corners(Point::new(bx0, -box_half), Point::new(bx1, box_half));
-    d.items.push(Item::Box { rect: rb, fill: Some(0.93), stroke: Some(Stroke::solid(THIN_W).dashed(LINE_DASH)) });
+    d.items.push(Item::Box {
+        rect: rb,
+        fill: Some(0.93),
+        stroke: Some(Stroke::solid(THIN_W).dashed(LINE_DASH)),
+    });
     d.placer.block(rb);
     d.items.push(Item::Text {
         at: Point::new(bx0 + 5.6, 0.0),
@@ -138,14 +147,41 @@ pub fn student(plan: &SheetPlan) -> Drawing {
         d.items.push(line(start, end, Stroke::solid(GUIDE_W)));
         d.placer.block_line(start, end);
         let mid = Point::new(start.x + (end.x - start.x) * 0.55, h);
-        d.items.push(Item::Arrowhead { tip: mid, dir: Vec2::new(1.0, 0.0), length_mm: 3.0, width_mm: 1.8, gray: 0.0 });
+        d.items.push(Item::Arrowhead {
+            tip: mid,
+            dir: Vec2::new(1.0, 0.0),
+            length_mm: 3.0,
+            width_mm: 1.8,
+            gray: 0.0,
+        });
         let label = format!("{} {}", ray_letter(k), signed(h));
-        place_label(&mut d, &bounds, &label, LABEL_PT, &[
-            (Point::new(start.x + 1.0, h + 1.0), Anchor::Start),
-            (Point::new(start.x + 1.0, h - 3.2), Anchor::Start),
-            (Point::new(mid.x - 5.0, h + 1.0), Anchor::End),
-        ]);
+        place_label(
+            &mut d,
+            &bounds,
+            &label,
+            LABEL_PT,
+            &[
+                (Point::new(start.x + 1.0, h + 1.0), Anchor::Start),
+                (Point::new(start.x + 1.0, h - 3.2), Anchor::Start),
+                (Point::new(mid.x - 5.0, h + 1.0), Anchor::End),
+                (Point::new(mid.x - 5.0, h - 3.2), Anchor::End),
+                (Point::new(start.x + 1.0, h + 2.6), Anchor::Start),
+                (Point::new(start.x + 1.0, h - 4.8), Anchor::Start),
+            ],
+        );
     }
+    // The axis label last, between the ray box and the piece (where the key's
+    // crossings never fall), clear of the guide labels.
+    let x_left = s.x_min + 11.0;
+    let x_right = o.entry_x(a).min(0.0) - 2.0;
+    let mut cands = Vec::new();
+    for k in 0..5 {
+        let x = x_left + (x_right - x_left) * (0.5 + 0.1 * f64::from(k));
+        cands.push((Point::new(x, -3.4), Anchor::Middle));
+        cands.push((Point::new(x, 1.4), Anchor::Middle));
+    }
+    cands.push((Point::new(s.x_max - 2.0, 1.4), Anchor::End));
+    place_label(&mut d, &bounds, "optical axis", LABEL_PT, &cands);
     d
 }
 
@@ -194,19 +230,34 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing) -> Vec<Item> {
         items.push(Item::Polyline { points: pts, closed: false, stroke: ray_stroke });
         if let (Outcome::Virtual { x_mm }, Some((p, _))) = (tr.outcome, tr.exit) {
             let v = Point::new(x_mm, 0.0);
-            items.push(Item::Line { from: p, to: v, stroke: Stroke::solid(THIN_W).gray(0.25).dashed(LINE_DASH) });
+            items.push(Item::Line {
+                from: p,
+                to: v,
+                stroke: Stroke::solid(THIN_W).gray(0.25).dashed(LINE_DASH),
+            });
             base.placer.block_line(p, v);
         }
         if let Some(tb) = r.trace_back {
             for (j, p) in tb.iter().enumerate() {
-                items.push(Item::Marker { at: *p, shape: MarkerShape::Dot, size_mm: 1.6, stroke: Stroke::solid(THIN_W) });
+                items.push(Item::Marker {
+                    at: *p,
+                    shape: MarkerShape::Dot,
+                    size_mm: 1.6,
+                    stroke: Stroke::solid(THIN_W),
+                });
                 let lbl = format!("{}{}", ray_letter(k), j + 1);
                 let up = if r.height_mm >= 0.0 { 1.2 } else { -3.4 };
                 let mut d2 = Drawing { items: Vec::new(), placer: std::mem::take(&mut base.placer) };
-                place_label(&mut d2, &bounds, &lbl, 6.5, &[
-                    (Point::new(p.x + 1.2, p.y + up), Anchor::Start),
-                    (Point::new(p.x - 1.2, p.y + up), Anchor::End),
-                ]);
+                place_label(
+                    &mut d2,
+                    &bounds,
+                    &lbl,
+                    6.5,
+                    &[
+                        (Point::new(p.x + 1.2, p.y + up), Anchor::Start),
+                        (Point::new(p.x - 1.2, p.y + up), Anchor::End),
+                    ],
+                );
                 base.placer = d2.placer;
                 items.extend(d2.items);
             }
@@ -221,13 +272,16 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing) -> Vec<Item> {
     }
     // Crossing marks, labelled below the axis, stacked to stay apart.
     marks.sort_by(|a, b| a.0.total_cmp(&b.0));
-    let reference = match (plan.kind, o.entry_face) {
-        (SheetKind::CurvedFace, Face::Flat) => ("from the flat face", 0.0),
-        _ => ("from the exit face", o.t()),
-    };
+    let (ref_x, ref_words) = plan.measure_from();
+    let reference = (ref_words, ref_x);
     for (x, letters, is_virtual) in &marks {
         let at = Point::new(*x, 0.0);
-        items.push(Item::Marker { at, shape: MarkerShape::Saltire, size_mm: 2.6, stroke: Stroke::solid(0.3) });
+        items.push(Item::Marker {
+            at,
+            shape: MarkerShape::Saltire,
+            size_mm: 2.6,
+            stroke: Stroke::solid(0.3),
+        });
         let dist = x - reference.1;
         let value = if *is_virtual {
             format!("{}: {} mm before the exit face", letters.join(", "), fmt1(-dist))
@@ -269,7 +323,11 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing) -> Vec<Item> {
         let x = o.t() + h;
         if (x - o.t()).abs() > 0.3 {
             let reach = o.a() * 0.6;
-            items.push(Item::Line { from: Point::new(x, -reach), to: Point::new(x, reach), stroke: Stroke::solid(THIN_W).gray(0.4).dashed(Dash::Dashed { on_mm: 1.0, off_mm: 1.0 }) });
+            items.push(Item::Line {
+                from: Point::new(x, -reach),
+                to: Point::new(x, reach),
+                stroke: Stroke::solid(THIN_W).gray(0.4).dashed(Dash::Dashed { on_mm: 1.0, off_mm: 1.0 }),
+            });
         }
     }
     items

@@ -59,18 +59,18 @@ impl Placer {
             min: Point::new(r.min.x - pad, r.min.y - pad),
             max: Point::new(r.max.x + pad, r.max.y + pad),
         };
-        !self.boxes.iter().any(|b| b.overlaps(&g)) && !self.segments.iter().any(|(a, b)| segment_hits_rect(*a, *b, &g))
+        !self.boxes.iter().any(|b| b.overlaps(&g))
+            && !self.segments.iter().any(|(a, b)| segment_hits_rect(*a, *b, &g))
     }
 
-    /// The first candidate (index) whose box is free and inside `bounds`;
+    /// The first candidate (index) whose box is free (0.3 mm clear) and inside `bounds`;
     /// failing that, the first free one anywhere, then the first inside
     /// `bounds`, or 0. The chosen box is then taken.
     pub fn choose(&mut self, candidates: &[Rect], bounds: &Rect) -> usize {
         let inside = |r: &Rect| bounds.contains(r.min) && bounds.contains(r.max);
         let pick = candidates
             .iter()
-            .position(|r| inside(r) && self.is_free(r, 0.6))
-            .or_else(|| candidates.iter().position(|r| inside(r) && self.is_free(r, 0.0)))
+            .position(|r| inside(r) && self.is_free(r, 0.3))
             .or_else(|| candidates.iter().position(|r| self.is_free(r, 0.0)))
             .or_else(|| candidates.iter().position(inside))
             .unwrap_or(0);

@@ -225,7 +225,14 @@ fn join_marks(p: &SheetPlan, tiling: &Tiling, win: &Rect) -> Vec<Item> {
     out
 }
 
-fn header(kit_title: &str, p: &SheetPlan, rg: &Regions, t: &Templates, role: Role, tile: (usize, Tiling)) -> Vec<Item> {
+fn header(
+    kit_title: &str,
+    p: &SheetPlan,
+    rg: &Regions,
+    t: &Templates,
+    role: Role,
+    tile: (usize, Tiling),
+) -> Vec<Item> {
     let top = rg.printable.max.y;
     let left = rg.printable.min.x;
     let right = rg.printable.max.x;
@@ -235,15 +242,28 @@ fn header(kit_title: &str, p: &SheetPlan, rg: &Regions, t: &Templates, role: Rol
         Role::Student => "Student sheet",
         Role::Key => "ANSWER KEY (teacher's copy)",
     };
-    items.push(text(Point::new(left, top - 5.0), &format!("{heading}: sheet {}", p.number), 13.0, Weight::Bold, Anchor::Start));
+    items.push(text(
+        Point::new(left, top - 5.0),
+        &format!("{heading}: sheet {}", p.number),
+        13.0,
+        Weight::Bold,
+        Anchor::Start,
+    ));
     let piece = match &p.piece_label {
         Some(l) => format!("{l} ({})", p.piece_id),
         None => p.piece_id.clone(),
     };
-    let tile_word = if tile.1.pages() > 1 { format!(" · tile {} of {}", tile.0 + 1, tile.1.pages()) } else { String::new() };
+    let tile_word = if tile.1.pages() > 1 {
+        format!(" · tile {} of {}", tile.0 + 1, tile.1.pages())
+    } else {
+        String::new()
+    };
     items.push(text(
         Point::new(left, top - 10.5),
-        &format!("{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}", p.entry.as_str()),
+        &format!(
+            "{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}",
+            p.entry.as_str()
+        ),
         BODY_PT,
         Weight::Regular,
         Anchor::Start,
@@ -265,7 +285,11 @@ fn header(kit_title: &str, p: &SheetPlan, rg: &Regions, t: &Templates, role: Rol
         let y = top - 6.25 + (n - 1.0) * 2.3 - i as f64 * 4.6 - 1.3;
         items.push(text(Point::new(right - 3.0, y), l, 10.0, Weight::Bold, Anchor::End));
     }
-    items.push(Item::Line { from: Point::new(left, top - 13.5), to: Point::new(bx.min.x - 3.0, top - 13.5), stroke: Stroke::solid(0.2) });
+    items.push(Item::Line {
+        from: Point::new(left, top - 13.5),
+        to: Point::new(bx.min.x - 3.0, top - 13.5),
+        stroke: Stroke::solid(0.2),
+    });
     items
 }
 
@@ -274,7 +298,15 @@ fn caution(r: &Rect, t: &Templates) -> Vec<Item> {
     let mut out = Vec::new();
     for (i, l) in lines.iter().take(2).enumerate() {
         let y = r.max.y - 3.0 - i as f64 * leading(7.0);
-        out.push(Item::Text { at: Point::new(r.min.x, y), text: l.clone(), size_pt: 7.0, weight: Weight::Regular, anchor: Anchor::Start, rotate_deg: 0.0, gray: 0.15 });
+        out.push(Item::Text {
+            at: Point::new(r.min.x, y),
+            text: l.clone(),
+            size_pt: 7.0,
+            weight: Weight::Regular,
+            anchor: Anchor::Start,
+            rotate_deg: 0.0,
+            gray: 0.15,
+        });
     }
     out
 }
@@ -314,7 +346,13 @@ fn key_values(p: &SheetPlan) -> Vec<String> {
         None => {}
     }
     if let Some(b) = &p.band {
-        v.push(format!("Safe band {}–{} mm from the axis: {}; {}.", f1(b.min_mm), f1(b.max_mm), b.min_reason, b.max_reason));
+        v.push(format!(
+            "Safe band {}–{} mm from the axis: {}; {}.",
+            f1(b.min_mm),
+            f1(b.max_mm),
+            b.min_reason,
+            b.max_reason
+        ));
     }
     v.push(format!(
         "Tolerances: ±{} mm across the ray divided by tan(angle to the axis); crossings are exact Snell's-law traces.",
@@ -329,7 +367,9 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
     let mut y = r.max.y - 3.0;
     let (lines, size): (Vec<String>, f64) = match role {
         Role::Student => (st.instructions.iter().map(|l| fill(l, p)).collect(), BODY_PT),
-        Role::Key => (key_values(p).iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(), 6.8),
+        Role::Key => {
+            (key_values(p).iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(), 6.8)
+        }
     };
     let lead = leading(size);
     for l in &lines {
@@ -358,7 +398,11 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
         out.push(Item::Line { from: Point::new(r.min.x, yy), to: Point::new(r.max.x, yy), stroke });
     }
     for &xx in xs.iter().chain(std::iter::once(&r.max.x)) {
-        out.push(Item::Line { from: Point::new(xx, top), to: Point::new(xx, top - rows as f64 * row_h), stroke });
+        out.push(Item::Line {
+            from: Point::new(xx, top),
+            to: Point::new(xx, top - rows as f64 * row_h),
+            stroke,
+        });
     }
     let cell = |k: usize| top - (k as f64 + 1.0) * row_h + row_h * 0.3;
     let tsize = if row_h < 4.4 { 6.5 } else { 7.5 };
@@ -374,14 +418,33 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
         let ray = &p.rays[i];
         let yy = cell(k + 1);
         out.push(text(Point::new(xs[0] + 1.0, yy), &ray_letter(k), tsize, Weight::Regular, Anchor::Start));
-        out.push(text(Point::new(xs[1] + 1.0, yy), &signed(ray.height_mm), tsize, Weight::Regular, Anchor::Start));
+        out.push(text(
+            Point::new(xs[1] + 1.0, yy),
+            &signed(ray.height_mm),
+            tsize,
+            Weight::Regular,
+            Anchor::Start,
+        ));
         if role == Role::Key {
-            let reference = if p.kind == SheetKind::CurvedFace { 0.0 } else { p.outline.t() };
+            let (reference, _) = p.measure_from();
+            let tol = |r: &crate::plan::RayAnswer| match (r.graded, r.tolerance_mm) {
+                (true, Some(t)) => format!(" ± {}", f1(t)),
+                _ => String::new(),
+            };
             let (value, note) = match (ray.trace.outcome, ray.crossing_from_entry_mm) {
-                (Outcome::Crosses { .. }, Some(x)) => (format!("{} ± {} mm", f1(x - reference), f1(ray.tolerance_mm.unwrap_or(0.0))), "crosses".to_string()),
-                (Outcome::Virtual { .. }, Some(x)) => (format!("{} ± {} mm", f1(p.outline.t() - x), f1(ray.tolerance_mm.unwrap_or(0.0))), "virtual: trace back".to_string()),
-                (Outcome::OnAxis, _) => ("on the axis: no crossing".to_string(), "straight through".to_string()),
-                (o, _) => ("no crossing".to_string(), o.as_str().replace('-', " ")),
+                (Outcome::Crosses { .. }, Some(x)) => {
+                    (format!("{}{} mm", f1(x - reference), tol(ray)), "crosses")
+                }
+                (Outcome::Virtual { .. }, Some(x)) => {
+                    (format!("{}{} mm", f1(p.outline.t() - x), tol(ray)), "virtual: traced back")
+                }
+                (Outcome::OnAxis, _) => ("on the axis: no crossing".to_string(), "straight through"),
+                (o, _) => ("no crossing".to_string(), o.as_str()),
+            };
+            let note = if ray.crossing_from_entry_mm.is_some() && !ray.graded {
+                "near the axis: not graded".to_string()
+            } else {
+                note.replace('-', " ")
             };
             out.push(text(Point::new(xs[2] + 1.0, yy), &value, tsize, Weight::Bold, Anchor::Start));
             out.push(text(Point::new(xs[3] + 1.0, yy), &note, tsize, Weight::Regular, Anchor::Start));
@@ -392,14 +455,29 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
 
 fn tile_note(n: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
     let lines = [
-        format!("Tile {} of {}: this setup is larger than the paper, so it is printed on {} pages.", n + 1, tiling.pages(), tiling.pages()),
-        "Overlap neighbouring tiles until the ringed crosses lie on top of each other, then tape them.".to_string(),
-        "The instructions and the table are on tile 1. The map on the right shows how the tiles join.".to_string(),
+        format!(
+            "Tile {} of {}: this setup is larger than the paper, so it is printed on {} pages.",
+            n + 1,
+            tiling.pages(),
+            tiling.pages()
+        ),
+        "Overlap neighbouring tiles until the ringed crosses lie on top of each other, then tape them."
+            .to_string(),
+        "The instructions and the table are on tile 1. The map on the right shows how the tiles join."
+            .to_string(),
     ];
     lines
         .iter()
         .enumerate()
-        .map(|(i, l)| text(Point::new(r.min.x, r.max.y - 3.0 - i as f64 * leading(BODY_PT)), l, BODY_PT, Weight::Regular, Anchor::Start))
+        .map(|(i, l)| {
+            text(
+                Point::new(r.min.x, r.max.y - 3.0 - i as f64 * leading(BODY_PT)),
+                l,
+                BODY_PT,
+                Weight::Regular,
+                Anchor::Start,
+            )
+        })
         .collect()
 }
 
@@ -413,7 +491,11 @@ fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, 
     for k in 0..=10 {
         let x = x0 + 10.0 * f64::from(k);
         let len = if k % 5 == 0 { 2.5 } else { 1.3 };
-        out.push(Item::Line { from: Point::new(x, y), to: Point::new(x, y + len), stroke: Stroke::solid(0.2) });
+        out.push(Item::Line {
+            from: Point::new(x, y),
+            to: Point::new(x, y + len),
+            stroke: Stroke::solid(0.2),
+        });
     }
     out.push(text(Point::new(x0, y + 3.6), &t.common.scale_check, 7.0, Weight::Bold, Anchor::Start));
     out.push(text(Point::new(x0, y - 3.6), &t.common.scale_hint, 6.5, Weight::Regular, Anchor::Start));
@@ -422,7 +504,11 @@ fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, 
     out.push(Item::Line { from: Point::new(vx, vy0), to: Point::new(vx, vy0 + 50.0), stroke: bar });
     for k in 0..=5 {
         let yy = vy0 + 10.0 * f64::from(k);
-        out.push(Item::Line { from: Point::new(vx, yy), to: Point::new(vx - 2.0, yy), stroke: Stroke::solid(0.2) });
+        out.push(Item::Line {
+            from: Point::new(vx, yy),
+            to: Point::new(vx - 2.0, yy),
+            stroke: Stroke::solid(0.2),
+        });
     }
     out.push(Item::Text {
         at: Point::new(vx - 3.0, vy0 + 25.0),
@@ -439,8 +525,18 @@ fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, 
     } else if role == Role::Key && upper.height() > 20.0 {
         out.extend(plot::aberration_plot(p, upper));
     } else if role == Role::Student && p.kind == SheetKind::Focal {
-        let msg = if p.is_diverging() { "Virtual focus you found: ______ mm before the exit face" } else { "Where the rays meet: ______ mm from the exit face" };
-        out.push(text(Point::new(upper.min.x, upper.min.y + 6.0), msg, BODY_PT, Weight::Regular, Anchor::Start));
+        let msg = if p.is_diverging() {
+            "Virtual focus you found: ______ mm before the exit face"
+        } else {
+            "Where the rays meet: ______ mm from the exit face"
+        };
+        out.push(text(
+            Point::new(upper.min.x, upper.min.y + 6.0),
+            msg,
+            BODY_PT,
+            Weight::Regular,
+            Anchor::Start,
+        ));
     }
     out
 }
@@ -451,14 +547,30 @@ fn tile_map(current: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
     let ch = 9.0;
     let x0 = r.min.x + 2.0;
     let y_top = r.max.y - 8.0;
-    out.push(text(Point::new(x0, r.max.y - 3.5), "How the tiles join (this one shaded):", 7.0, Weight::Bold, Anchor::Start));
+    out.push(text(
+        Point::new(x0, r.max.y - 3.5),
+        "How the tiles join (this one shaded):",
+        7.0,
+        Weight::Bold,
+        Anchor::Start,
+    ));
     for row in 0..tiling.rows {
         for col in 0..tiling.columns {
             let n = row * tiling.columns + col;
             let min = Point::new(x0 + col as f64 * (cw - 2.0), y_top - (row as f64 + 1.0) * (ch - 1.5));
             let rect = Rect { min, max: Point::new(min.x + cw, min.y + ch) };
-            out.push(Item::Box { rect, fill: (n == current).then_some(0.8), stroke: Some(Stroke::solid(0.25)) });
-            out.push(text(Point::new(min.x + cw / 2.0, min.y + ch / 2.0 - 1.2), &format!("{}", n + 1), 7.0, Weight::Bold, Anchor::Middle));
+            out.push(Item::Box {
+                rect,
+                fill: (n == current).then_some(0.8),
+                stroke: Some(Stroke::solid(0.25)),
+            });
+            out.push(text(
+                Point::new(min.x + cw / 2.0, min.y + ch / 2.0 - 1.2),
+                &format!("{}", n + 1),
+                7.0,
+                Weight::Bold,
+                Anchor::Middle,
+            ));
         }
     }
     out

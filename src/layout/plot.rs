@@ -43,7 +43,8 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
     if pts.is_empty() {
         return items;
     }
-    let (mut y0, mut y1) = pts.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.1), b.max(p.1)));
+    let (mut y0, mut y1) =
+        pts.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.1), b.max(p.1)));
     if let Some(p) = parax {
         y0 = y0.min(p);
         y1 = y1.max(p);
@@ -54,12 +55,12 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
     let xstep = nice_step(top_h, 4.0);
     let x1 = (top_h / xstep).ceil() * xstep;
     // Inner plot box, leaving room for tick labels and titles.
-    let inner = Rect { min: Point::new(area.min.x + 9.0, area.min.y + 8.0), max: Point::new(area.max.x - 2.0, area.max.y - 6.0) };
+    let inner = Rect {
+        min: Point::new(area.min.x + 9.0, area.min.y + 8.0),
+        max: Point::new(area.max.x - 2.0, area.max.y - 6.0),
+    };
     let map = |h: f64, d: f64| {
-        Point::new(
-            inner.min.x + h / x1 * inner.width(),
-            inner.min.y + (d - y0) / (y1 - y0) * inner.height(),
-        )
+        Point::new(inner.min.x + h / x1 * inner.width(), inner.min.y + (d - y0) / (y1 - y0) * inner.height())
     };
     let frame = Stroke::solid(0.2);
     items.push(Item::Box { rect: inner, fill: None, stroke: Some(frame) });
@@ -67,14 +68,26 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
     while v <= x1 + 1e-9 {
         let p = map(v, y0);
         items.push(Item::Line { from: p, to: Point::new(p.x, p.y - 1.0), stroke: frame });
-        items.push(text(Point::new(p.x, p.y - 3.6), &format!("{v:.0}"), 6.0, Weight::Regular, Anchor::Middle));
+        items.push(text(
+            Point::new(p.x, p.y - 3.6),
+            &format!("{v:.0}"),
+            6.0,
+            Weight::Regular,
+            Anchor::Middle,
+        ));
         v += xstep;
     }
     let mut v = y0;
     while v <= y1 + 1e-9 {
         let p = map(0.0, v);
         items.push(Item::Line { from: p, to: Point::new(p.x - 1.0, p.y), stroke: frame });
-        items.push(text(Point::new(p.x - 1.5, p.y - 0.8), &format!("{v:.0}"), 6.0, Weight::Regular, Anchor::End));
+        items.push(text(
+            Point::new(p.x - 1.5, p.y - 0.8),
+            &format!("{v:.0}"),
+            6.0,
+            Weight::Regular,
+            Anchor::End,
+        ));
         v += ystep;
     }
     if let Some(p) = parax {
@@ -88,12 +101,21 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
         let dy = if below { -2.8 } else { 1.0 };
         items.push(text(Point::new(at.x - 1.0, at.y + dy), "paraxial", 6.0, Weight::Regular, Anchor::End));
     }
-    items.push(Item::Polyline { points: pts.iter().map(|&(h, d)| map(h, d)).collect(), closed: false, stroke: Stroke::solid(0.35) });
+    items.push(Item::Polyline {
+        points: pts.iter().map(|&(h, d)| map(h, d)).collect(),
+        closed: false,
+        stroke: Stroke::solid(0.35),
+    });
     for r in &plan.rays {
         if let Some(x) = r.crossing_from_exit_mm {
             let h = r.height_mm.abs();
             if h <= x1 && h > 0.0 {
-                items.push(Item::Marker { at: map(h, x.abs()), shape: MarkerShape::Dot, size_mm: 1.4, stroke: Stroke::solid(0.2) });
+                items.push(Item::Marker {
+                    at: map(h, x.abs()),
+                    shape: MarkerShape::Dot,
+                    size_mm: 1.4,
+                    stroke: Stroke::solid(0.2),
+                });
             }
         }
     }
@@ -104,7 +126,13 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
         Weight::Bold,
         Anchor::Start,
     ));
-    items.push(text(Point::new((inner.min.x + inner.max.x) / 2.0, area.min.y + 1.0), "guide height, mm from the axis", 6.0, Weight::Regular, Anchor::Middle));
+    items.push(text(
+        Point::new((inner.min.x + inner.max.x) / 2.0, area.min.y + 1.0),
+        "guide height, mm from the axis",
+        6.0,
+        Weight::Regular,
+        Anchor::Middle,
+    ));
     items.push(Item::Text {
         at: Point::new(area.min.x + 1.8, (inner.min.y + inner.max.y) / 2.0),
         text: "mm from exit face".into(),

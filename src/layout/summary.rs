@@ -22,9 +22,9 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
         ("Piece, entry", 0.14),
         ("Ray", 0.04),
         ("Height", 0.08),
-        ("Predicted crossing", 0.2),
-        ("Thin f / EFL", 0.13),
-        ("BFL", 0.13),
+        ("Predicted crossing", 0.3),
+        ("Thin f / EFL", 0.09),
+        ("BFL", 0.07),
     ];
     let mut xs = Vec::new();
     let mut x = area.min.x;
@@ -38,12 +38,25 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
             for (k, &i) in rays_top_down(p).iter().enumerate() {
                 let r = &p.rays[i];
                 let first = k == 0;
-                let crossing = match (r.crossing_from_exit_mm, r.tolerance_mm) {
-                    (Some(x), Some(t)) if x < 0.0 => format!("{:.1} ± {:.1} before exit", -x, t),
-                    (Some(x), Some(t)) => format!("{:.1} ± {:.1} after exit", x, t),
-                    _ => r.trace.outcome.as_str().to_string(),
+                let (ref_x, ref_words) = p.measure_from();
+                let tol = match (r.graded, r.tolerance_mm) {
+                    (true, Some(t)) => format!(" ± {t:.1}"),
+                    _ => String::new(),
                 };
-                let opt = |v: Option<f64>| v.map(|v| format!("{:.1}", v + 0.0)).unwrap_or_else(|| "none".into());
+                let crossing = match r.crossing_from_entry_mm {
+                    Some(x) if x < p.outline.t() && ref_x > 0.0 => {
+                        format!("{:.1}{tol} before the exit face", p.outline.t() - x)
+                    }
+                    Some(x) => format!("{:.1}{tol} {ref_words}", x - ref_x),
+                    None => r.trace.outcome.as_str().to_string(),
+                };
+                let crossing = if r.crossing_from_entry_mm.is_some() && !r.graded {
+                    format!("{crossing} (not graded)")
+                } else {
+                    crossing
+                };
+                let opt =
+                    |v: Option<f64>| v.map(|v| format!("{:.1}", v + 0.0)).unwrap_or_else(|| "none".into());
                 rows.push([
                     if first { p.group.clone().unwrap_or_default() } else { String::new() },
                     if first { p.variant.clone().unwrap_or_default() } else { String::new() },
@@ -52,7 +65,11 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
                     ray_letter(k),
                     signed(r.height_mm),
                     crossing,
-                    if first { format!("{} / {}", opt(p.paraxial.thin_lens_focal_mm()), opt(p.paraxial.efl_mm())) } else { String::new() },
+                    if first {
+                        format!("{} / {}", opt(p.paraxial.thin_lens_focal_mm()), opt(p.paraxial.efl_mm()))
+                    } else {
+                        String::new()
+                    },
                     if first { opt(p.paraxial.bfl_mm()) } else { String::new() },
                 ]);
             }
@@ -63,10 +80,20 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
     let mut scene = Scene { title: format!("{kit_title}: class summary"), pages: Vec::new() };
     for pg in 0..pages_n {
         let mut items = vec![
-            text(Point::new(area.min.x, area.max.y - 5.0), &format!("{kit_title}: class summary (seed {})", class.seed), 12.0, Weight::Bold, Anchor::Start),
+            text(
+                Point::new(area.min.x, area.max.y - 5.0),
+                &format!("{kit_title}: class summary (seed {})", class.seed),
+                12.0,
+                Weight::Bold,
+                Anchor::Start,
+            ),
             text(
                 Point::new(area.min.x, area.max.y - 10.0),
-                &format!("page {} of {} · distances in mm from the exit face; ± is the grading tolerance along the axis", pg + 1, pages_n),
+                &format!(
+                    "page {} of {} · distances in mm, measured as on each sheet; ± is the grading tolerance along the axis",
+                    pg + 1,
+                    pages_n
+                ),
                 7.5,
                 Weight::Regular,
                 Anchor::Start,
@@ -74,13 +101,27 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
         ];
         let top = area.max.y - 14.0;
         for (j, (name, _)) in cols.iter().enumerate() {
-            items.push(text(Point::new(xs[j] + 0.8, top - row_h + 1.3), name, size, Weight::Bold, Anchor::Start));
+            items.push(text(
+                Point::new(xs[j] + 0.8, top - row_h + 1.3),
+                name,
+                size,
+                Weight::Bold,
+                Anchor::Start,
+            ));
         }
-        items.push(Item::Line { from: Point::new(area.min.x, top - row_h), to: Point::new(area.max.x, top - row_h), stroke: Stroke::solid(0.3) });
+        items.push(Item::Line {
+            from: Point::new(area.min.x, top - row_h),
+            to: Point::new(area.max.x, top - row_h),
+            stroke: Stroke::solid(0.3),
+        });
         for (k, row) in rows.iter().skip(pg * per_page).take(per_page).enumerate() {
             let y = top - (k as f64 + 2.0) * row_h + 1.3;
             if !row[0].is_empty() || !row[2].is_empty() {
-                items.push(Item::Line { from: Point::new(area.min.x, y + row_h - 1.3), to: Point::new(area.max.x, y + row_h - 1.3), stroke: Stroke::solid(0.15) });
+                items.push(Item::Line {
+                    from: Point::new(area.min.x, y + row_h - 1.3),
+                    to: Point::new(area.max.x, y + row_h - 1.3),
+                    stroke: Stroke::solid(0.15),
+                });
             }
             for (j, cell) in row.iter().enumerate() {
                 let weight = if j == 6 { Weight::Bold } else { Weight::Regular };

@@ -87,12 +87,14 @@ impl Paraxial {
 mod tests {
     use super::*;
     use crate::geom::testutil::assert_close;
-    use crate::optics::{Face, Outline, Outcome, trace_parallel};
+    use crate::optics::{Face, Outcome, Outline, trace_parallel};
 
     #[test]
     fn equiconvex_12cm_faces_at_1_5_give_12cm() {
         // Common practice, no source: equiconvex, 12 cm faces, n = 1.5 → f = 12 cm (thin lens).
-        let p = Piece::new(Face::Convex { radius_mm: 120.0 }, Face::Convex { radius_mm: 120.0 }, 8.0, 50.0, 1.5).unwrap();
+        let p =
+            Piece::new(Face::Convex { radius_mm: 120.0 }, Face::Convex { radius_mm: 120.0 }, 8.0, 50.0, 1.5)
+                .unwrap();
         assert_close(Paraxial::of(&p, Entry::Front).thin_lens_focal_mm().unwrap(), 120.0, 1e-9);
     }
 

@@ -78,7 +78,9 @@ impl PieceError {
             PieceError::Index(n) => format!("index {n} is not a usable index of refraction"),
             PieceError::Thickness(t) => format!("thickness {t} mm is not a usable thickness"),
             PieceError::Height(h) => format!("height {h} mm is not a usable height"),
-            PieceError::Radius { face, radius_mm } => format!("{face} radius {radius_mm} mm is not a usable radius"),
+            PieceError::Radius { face, radius_mm } => {
+                format!("{face} radius {radius_mm} mm is not a usable radius")
+            }
             PieceError::RadiusBelowHalfHeight { face, radius_mm, half_height_mm } => format!(
                 "{face} radius {radius_mm} mm is smaller than half the height ({half_height_mm} mm), so the arc cannot reach the edges"
             ),
@@ -123,7 +125,13 @@ impl Piece {
     /// Checks and builds a piece. Errors: index ≤ 1 or not finite; thickness,
     /// height or a radius not finite or ≤ 0; a radius below half the height;
     /// edge thickness t − inset(front) − inset(back) below 0 (DESIGN.md).
-    pub fn new(front: Face, back: Face, thickness_mm: f64, height_mm: f64, index: f64) -> Result<Piece, PieceError> {
+    pub fn new(
+        front: Face,
+        back: Face,
+        thickness_mm: f64,
+        height_mm: f64,
+        index: f64,
+    ) -> Result<Piece, PieceError> {
         if !(index.is_finite() && index > 1.0) {
             return Err(PieceError::Index(index));
         }
@@ -140,7 +148,11 @@ impl Piece {
                     return Err(PieceError::Radius { face: name, radius_mm: r });
                 }
                 if r < a {
-                    return Err(PieceError::RadiusBelowHalfHeight { face: name, radius_mm: r, half_height_mm: a });
+                    return Err(PieceError::RadiusBelowHalfHeight {
+                        face: name,
+                        radius_mm: r,
+                        half_height_mm: a,
+                    });
                 }
             }
         }
@@ -206,7 +218,8 @@ impl Piece {
     pub fn is_half_disc(&self) -> bool {
         let check = |flat: Face, curved: Face| match (flat, curved) {
             (Face::Flat, Face::Convex { radius_mm }) => {
-                (self.thickness_mm - radius_mm).abs() < 1e-3 && (self.height_mm - 2.0 * radius_mm).abs() < 1e-3
+                (self.thickness_mm - radius_mm).abs() < 1e-3
+                    && (self.height_mm - 2.0 * radius_mm).abs() < 1e-3
             }
             _ => false,
         };
@@ -222,7 +235,9 @@ mod tests {
     #[test]
     fn edge_thickness_of_biconvex_follows_the_sagitta() {
         // s = R − √(R² − a²) (DESIGN.md); R = 50, a = 30: s = 50 − 40 = 10 (3-4-5 triangle).
-        let p = Piece::new(Face::Convex { radius_mm: 50.0 }, Face::Convex { radius_mm: 50.0 }, 24.0, 60.0, 1.49).unwrap();
+        let p =
+            Piece::new(Face::Convex { radius_mm: 50.0 }, Face::Convex { radius_mm: 50.0 }, 24.0, 60.0, 1.49)
+                .unwrap();
         assert_close(p.edge_thickness_mm(), 4.0, 1e-12);
     }
 
@@ -235,7 +250,10 @@ mod tests {
     #[test]
     fn rejects_bad_values() {
         assert!(matches!(Piece::new(Face::Flat, Face::Flat, 10.0, 10.0, 1.0), Err(PieceError::Index(_))));
-        assert!(matches!(Piece::new(Face::Flat, Face::Flat, 10.0, 10.0, f64::NAN), Err(PieceError::Index(_))));
+        assert!(matches!(
+            Piece::new(Face::Flat, Face::Flat, 10.0, 10.0, f64::NAN),
+            Err(PieceError::Index(_))
+        ));
         assert!(matches!(Piece::new(Face::Flat, Face::Flat, 0.0, 10.0, 1.5), Err(PieceError::Thickness(_))));
         assert!(matches!(Piece::new(Face::Flat, Face::Flat, 1.0, -3.0, 1.5), Err(PieceError::Height(_))));
         assert!(matches!(

@@ -102,7 +102,15 @@ pub fn trace_ray(outline: &Outline, incoming: Ray) -> Trace {
             } else {
                 finish(outline, incoming, ray, exit, reflections)
             };
-            return Trace { incoming, path, exit_dir: ray.dir, exit, reflections, worst_inside_incidence_rad: worst, outcome };
+            return Trace {
+                incoming,
+                path,
+                exit_dir: ray.dir,
+                exit,
+                reflections,
+                worst_inside_incidence_rad: worst,
+                outcome,
+            };
         };
         path.push(p);
         let (n1, n2) = if inside { (n_glass, 1.0) } else { (1.0, n_glass) };
@@ -136,7 +144,13 @@ pub fn trace_ray(outline: &Outline, incoming: Ray) -> Trace {
     }
 }
 
-fn finish(outline: &Outline, incoming: Ray, ray: Ray, exit: Option<(Point, Boundary)>, reflections: u32) -> Outcome {
+fn finish(
+    outline: &Outline,
+    incoming: Ray,
+    ray: Ray,
+    exit: Option<(Point, Boundary)>,
+    reflections: u32,
+) -> Outcome {
     if reflections > 0 {
         return Outcome::TotalInternalReflection;
     }
@@ -211,7 +225,9 @@ mod tests {
     fn symmetric_heights_cross_at_the_same_point_and_move_inward() {
         // Common practice, no source: rays at ±h cross at the same point; the
         // crossing moves toward the piece as the height grows.
-        let p = Piece::new(Face::Convex { radius_mm: 120.0 }, Face::Convex { radius_mm: 120.0 }, 9.0, 60.0, 1.5).unwrap();
+        let p =
+            Piece::new(Face::Convex { radius_mm: 120.0 }, Face::Convex { radius_mm: 120.0 }, 9.0, 60.0, 1.5)
+                .unwrap();
         let o = Outline::new(p, Entry::Front);
         let mut last = f64::INFINITY;
         for h in [2.0, 6.0, 10.0, 14.0, 18.0, 22.0] {
@@ -234,7 +250,9 @@ mod tests {
 
     #[test]
     fn diverging_piece_gives_a_virtual_crossing_before_the_exit() {
-        let p = Piece::new(Face::Concave { radius_mm: 60.0 }, Face::Concave { radius_mm: 60.0 }, 4.0, 40.0, 1.49).unwrap();
+        let p =
+            Piece::new(Face::Concave { radius_mm: 60.0 }, Face::Concave { radius_mm: 60.0 }, 4.0, 40.0, 1.49)
+                .unwrap();
         let o = Outline::new(p, Entry::Front);
         let tr = trace_parallel(&o, 5.0, 10.0);
         let Outcome::Virtual { x_mm } = tr.outcome else { panic!("{:?}", tr.outcome) };

@@ -116,7 +116,11 @@ pub fn check_height(outline: &Outline, rules: &BandRules, h: f64) -> Option<Limi
     let tr = trace_parallel(outline, h, 10.0);
     let entered_front = tr.path.get(1).is_some_and(|p| (p.x - outline.entry_x(p.y)).abs() < 1e-6);
     let (x, exit_point) = match (tr.outcome, tr.exit) {
-        (Outcome::Crosses { x_mm } | Outcome::Virtual { x_mm }, Some((p, Boundary::Exit))) if entered_front => (x_mm, p),
+        (Outcome::Crosses { x_mm } | Outcome::Virtual { x_mm }, Some((p, Boundary::Exit)))
+            if entered_front =>
+        {
+            (x_mm, p)
+        }
         _ => return Some(Limit::WrongPath),
     };
     let crit = outline.piece.critical_angle_rad().to_degrees();
@@ -146,7 +150,9 @@ fn reason(limit: Limit, h: f64, lower: bool, outline: &Outline, rules: &BandRule
     let side = if lower { "below" } else { "above" };
     let h = format!("{h:.1} mm");
     match limit {
-        Limit::NearAxis => format!("{side} {h} the ray lies within one ray width ({} mm) of the axis", rules.ray_width_mm),
+        Limit::NearAxis => {
+            format!("{side} {h} the ray lies within one ray width ({} mm) of the axis", rules.ray_width_mm)
+        }
         Limit::Shallow => format!(
             "{side} {h} the ray meets the axis so shallowly that ±{:.1} mm across the ray becomes more than {:.0} % of the distance along the axis",
             rules.across_error_mm(),
@@ -157,7 +163,9 @@ fn reason(limit: Limit, h: f64, lower: bool, outline: &Outline, rules: &BandRule
             "{side} {h} the ray comes within one ray width of the piece's edge at {:.1} mm",
             outline.a()
         ),
-        Limit::WrongPath => format!("{side} {h} the ray is totally internally reflected or leaves through the wrong face"),
+        Limit::WrongPath => {
+            format!("{side} {h} the ray is totally internally reflected or leaves through the wrong face")
+        }
         Limit::CriticalMargin => format!(
             "{side} {h} the ray meets the exit face within {}° of the critical angle ({:.1}°)",
             rules.critical_margin_deg,
@@ -219,7 +227,8 @@ pub fn safe_band(outline: &Outline, rules: &BandRules) -> Option<SafeBand> {
         (good, bad)
     };
     let (min, min_bad) = if lo == 0 { (0.0, 0.0) } else { refine(lo as f64 * step, (lo - 1) as f64 * step) };
-    let (max, max_bad) = if hi == n { (hi as f64 * step, a) } else { refine(hi as f64 * step, (hi + 1) as f64 * step) };
+    let (max, max_bad) =
+        if hi == n { (hi as f64 * step, a) } else { refine(hi as f64 * step, (hi + 1) as f64 * step) };
     let min_limit = check_height(outline, rules, min_bad).unwrap_or(Limit::NearAxis);
     let max_limit = check_height(outline, rules, max_bad.min(a)).unwrap_or(Limit::EdgeClearance);
     Some(SafeBand {
@@ -238,7 +247,10 @@ mod tests {
     use crate::optics::{Entry, Face, Piece};
 
     fn half_disc(r: f64) -> Outline {
-        Outline::new(Piece::new(Face::Flat, Face::Convex { radius_mm: r }, r, 2.0 * r, 1.49).unwrap(), Entry::Front)
+        Outline::new(
+            Piece::new(Face::Flat, Face::Convex { radius_mm: r }, r, 2.0 * r, 1.49).unwrap(),
+            Entry::Front,
+        )
     }
 
     #[test]

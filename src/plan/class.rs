@@ -111,9 +111,15 @@ pub fn plan_class(kit: &Kit, paper: &PaperSpec, groups: Vec<Group>, seed: u64) -
         let mut options = settings(kit, spec, paper);
         let mut rng = sheet_stream(seed, spec.number);
         if spec.heights_mm.is_some() {
-            notes.push(format!("sheet {} has fixed heights_mm, so every group gets the same guide heights", spec.number));
+            notes.push(format!(
+                "sheet {} has fixed heights_mm, so every group gets the same guide heights",
+                spec.number
+            ));
         } else if options.is_empty() {
-            notes.push(format!("sheet {}: no guide heights qualify, so every group gets the default heights", spec.number));
+            notes.push(format!(
+                "sheet {}: no guide heights qualify, so every group gets the default heights",
+                spec.number
+            ));
         } else if options.len() < groups.len() {
             notes.push(format!(
                 "sheet {}: the safe band has room for only {} different setting(s) for {} groups, so some groups share guide heights",

@@ -3,8 +3,8 @@
 
 /// Names Windows reserves for devices, in any case and with any extension.
 const RESERVED: &[&str] = &[
-    "con", "prn", "aux", "nul", "com1", "com2", "com3", "com4", "com5", "com6", "com7", "com8", "com9", "lpt1",
-    "lpt2", "lpt3", "lpt4", "lpt5", "lpt6", "lpt7", "lpt8", "lpt9",
+    "con", "prn", "aux", "nul", "com1", "com2", "com3", "com4", "com5", "com6", "com7", "com8", "com9",
+    "lpt1", "lpt2", "lpt3", "lpt4", "lpt5", "lpt6", "lpt7", "lpt8", "lpt9",
 ];
 
 /// Longest cleaned part of a folder name, characters.
@@ -49,7 +49,10 @@ mod tests {
     #[test]
     fn hostile_names_become_safe_folders() {
         let names: Vec<String> =
-            ["../x", "CON", "", "Bench A", "bench  a", "a\nb", &"z".repeat(300), "Élodie & Ünal"].iter().map(|s| s.to_string()).collect();
+            ["../x", "CON", "", "Bench A", "bench  a", "a\nb", &"z".repeat(300), "Élodie & Ünal"]
+                .iter()
+                .map(|s| s.to_string())
+                .collect();
         let f = folder_names(&names);
         assert_eq!(f[0], "01-x");
         assert_eq!(f[1], "02-con-group");

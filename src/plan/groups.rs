@@ -18,7 +18,10 @@ pub fn group_name_problem(name: &str) -> Option<String> {
     let missing = crate::font::unsupported_chars(name);
     if !missing.is_empty() {
         let list: Vec<String> = missing.iter().map(|c| format!("'{c}' (U+{:04X})", *c as u32)).collect();
-        return Some(format!("group name {name:?} has characters the shipped font cannot print: {}", list.join(", ")));
+        return Some(format!(
+            "group name {name:?} has characters the shipped font cannot print: {}",
+            list.join(", ")
+        ));
     }
     None
 }

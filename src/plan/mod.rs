@@ -52,6 +52,10 @@ pub struct RayAnswer {
     pub trace_back: Option<[Point; 2]>,
     /// Whether the height lies in the safe band.
     pub in_band: bool,
+    /// Whether the key grades this ray's crossing: it crosses (really or
+    /// virtually) and lies in the safe band. Near-axis rays of a focal sheet's
+    /// beam are drawn and traced but not graded: their crossing is too shallow to locate.
+    pub graded: bool,
 }
 
 /// The extent of the setup in the sheet frame: what must be on paper.
@@ -99,6 +103,15 @@ pub struct SheetPlan {
 }
 
 impl SheetPlan {
+    /// Where students measure crossings from, as (x in the sheet frame, words):
+    /// the flat face on curved-face sheets, the exit face on focal sheets.
+    pub fn measure_from(&self) -> (f64, &'static str) {
+        match (self.kind, self.outline.entry_face) {
+            (SheetKind::CurvedFace, crate::optics::Face::Flat) => (0.0, "from the flat face"),
+            _ => (self.outline.t(), "from the exit face"),
+        }
+    }
+
     /// Whether the piece diverges light entering from this side.
     pub fn is_diverging(&self) -> bool {
         self.paraxial.efl_mm().is_some_and(|f| f < 0.0)
@@ -187,12 +200,19 @@ pub fn answer_ray(outline: &Outline, rules: &BandRules, band: Option<&SafeBand>,
         tolerance_mm: tolerance,
         trace_back,
         in_band: band.is_some_and(|b| b.contains(h)),
+        graded: band.is_some_and(|b| b.contains(h)) && x.is_some(),
         trace,
     }
 }
 
 /// Plans one sheet with the given guide heights (or the defaults) and entry side.
-pub fn plan_sheet(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec, entry: Entry, heights: Option<&[f64]>) -> SheetPlan {
+pub fn plan_sheet(
+    kit: &Kit,
+    spec: &SheetSpec,
+    paper: &PaperSpec,
+    entry: Entry,
+    heights: Option<&[f64]>,
+) -> SheetPlan {
     let kp = &kit.pieces[spec.piece];
     let outline = Outline::new(kp.piece, entry);
     let paraxial = Paraxial::of(&kp.piece, entry);
@@ -204,10 +224,14 @@ pub fn plan_sheet(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec, entry: Entry, 
         Some(h) => h.to_vec(),
         None => default_heights(spec.kind, band.as_ref(), kit, a),
     };
-    let rays: Vec<RayAnswer> = heights.iter().map(|&h| answer_ray(&outline, &rules, band.as_ref(), h)).collect();
+    let rays: Vec<RayAnswer> =
+        heights.iter().map(|&h| answer_ray(&outline, &rules, band.as_ref(), h)).collect();
     let mut warnings = Vec::new();
     match &band {
-        None => warnings.push("no guide height qualifies on this piece and paper; check the piece's size and the ray width".into()),
+        None => warnings.push(
+            "no guide height qualifies on this piece and paper; check the piece's size and the ray width"
+                .into(),
+        ),
         Some(b) => {
             for r in &rays {
                 // A focal sheet's beam is the ray box's: its inner rays are meant to be near
@@ -216,7 +240,8 @@ pub fn plan_sheet(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec, entry: Entry, 
                     SheetKind::Focal => r.height_mm.abs() > b.max_mm,
                     SheetKind::CurvedFace => r.height_mm != 0.0,
                 };
-                if matters && !r.in_band {
+                let misses = matches!(r.trace.outcome, Outcome::Misses);
+                if matters && !r.in_band && !misses {
                     let why = if r.height_mm.abs() < b.min_mm { &b.min_reason } else { &b.max_reason };
                     warnings.push(format!(
                         "guide height {} mm lies outside the safe band {:.1}–{:.1} mm: {why}",
@@ -232,7 +257,10 @@ pub fn plan_sheet(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec, entry: Entry, 
         match r.trace.outcome {
             Outcome::TotalInternalReflection => warnings.push(format!("the ray at {} mm is totally internally reflected", fmt_mm(r.height_mm))),
             Outcome::LeavesThroughEdge => warnings.push(format!("the ray at {} mm leaves through an edge", fmt_mm(r.height_mm))),
-            Outcome::Misses => warnings.push(format!("the ray at {} mm misses the piece", fmt_mm(r.height_mm))),
+            Outcome::Misses => warnings.push(format!(
+                "the ray at {} mm passes beside the piece (the beam is wider than the piece): cover that slit or use fewer rays",
+                fmt_mm(r.height_mm)
+            )),
             _ => {}
         }
     }

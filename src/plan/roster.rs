@@ -34,14 +34,18 @@ pub fn parse_roster(text: &str, file: &str) -> Result<Vec<String>, RosterError> 
     let mut reader = csv::ReaderBuilder::new().has_headers(true).flexible(true).from_reader(text.as_bytes());
     let headers = reader.headers().map_err(|e| err(1, format!("cannot read the header row: {e}")))?.clone();
     let Some(col) = headers.iter().position(|h| h.trim().eq_ignore_ascii_case("name")) else {
-        return Err(err(1, format!(
-            "the header row has no `name` column (found: {}); the first line must name the columns, such as `name`",
-            headers.iter().collect::<Vec<_>>().join(", ")
-        )));
+        return Err(err(
+            1,
+            format!(
+                "the header row has no `name` column (found: {}); the first line must name the columns, such as `name`",
+                headers.iter().collect::<Vec<_>>().join(", ")
+            ),
+        ));
     };
     let mut names: Vec<String> = Vec::new();
     for rec in reader.records() {
-        let rec = rec.map_err(|e| err(e.position().map(|p| p.line()).unwrap_or(0), format!("not valid CSV: {e}")))?;
+        let rec =
+            rec.map_err(|e| err(e.position().map(|p| p.line()).unwrap_or(0), format!("not valid CSV: {e}")))?;
         let line = rec.position().map(|p| p.line()).unwrap_or(0);
         if rec.iter().all(|f| f.trim().is_empty()) {
             continue;
@@ -51,15 +55,24 @@ pub fn parse_roster(text: &str, file: &str) -> Result<Vec<String>, RosterError> 
             return Err(err(line, format!("{problem}; give a short printable name, such as Bench A")));
         }
         if names.contains(&name) {
-            return Err(err(line, format!("the group name {name:?} appears twice; give every group its own name")));
+            return Err(err(
+                line,
+                format!("the group name {name:?} appears twice; give every group its own name"),
+            ));
         }
         names.push(name);
         if names.len() > MAX_GROUPS {
-            return Err(err(line, format!("more than {MAX_GROUPS} groups; raysheet makes at most {MAX_GROUPS} per class set")));
+            return Err(err(
+                line,
+                format!("more than {MAX_GROUPS} groups; raysheet makes at most {MAX_GROUPS} per class set"),
+            ));
         }
     }
     if names.is_empty() {
-        return Err(err(0, "the roster has no names; add one group name per line under the `name` header".into()));
+        return Err(err(
+            0,
+            "the roster has no names; add one group name per line under the `name` header".into(),
+        ));
     }
     Ok(names)
 }

@@ -18,18 +18,18 @@ fn stroke(s: &Stroke) -> String {
 fn item(out: &mut String, it: &Item, indent: usize) {
     let pad = " ".repeat(indent);
     let _ = match it {
-        Item::Line { from, to, stroke: s } => writeln!(
-            out,
-            "{pad}line ({:.2},{:.2})-({:.2},{:.2}) {}",
-            from.x,
-            from.y,
-            to.x,
-            to.y,
-            stroke(s)
-        ),
+        Item::Line { from, to, stroke: s } => {
+            writeln!(out, "{pad}line ({:.2},{:.2})-({:.2},{:.2}) {}", from.x, from.y, to.x, to.y, stroke(s))
+        }
         Item::Polyline { points, closed, stroke: s } => {
             let pts: Vec<String> = points.iter().map(|p| format!("({:.2},{:.2})", p.x, p.y)).collect();
-            writeln!(out, "{pad}polyline{} {} {}", if *closed { " closed" } else { "" }, pts.join(" "), stroke(s))
+            writeln!(
+                out,
+                "{pad}polyline{} {} {}",
+                if *closed { " closed" } else { "" },
+                pts.join(" "),
+                stroke(s)
+            )
         }
         Item::Arc { center, radius_mm, start_rad, sweep_rad, stroke: s } => writeln!(
             out,

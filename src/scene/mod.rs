@@ -132,10 +132,7 @@ pub struct Rect {
 impl Rect {
     /// The rectangle spanning two corners (in any order).
     pub fn from_corners(a: Point, b: Point) -> Rect {
-        Rect {
-            min: Point::new(a.x.min(b.x), a.y.min(b.y)),
-            max: Point::new(a.x.max(b.x), a.y.max(b.y)),
-        }
+        Rect { min: Point::new(a.x.min(b.x), a.y.min(b.y)), max: Point::new(a.x.max(b.x), a.y.max(b.y)) }
     }
 
     /// Width, mm.

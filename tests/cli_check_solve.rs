@@ -1,0 +1,404 @@
+//! Black-box tests of `raysheet check`, `raysheet solve` and `raysheet demo
+//! --print-kit`: the built binary runs in a temporary folder on fixture kits
+//! from `tests/fixtures/` (kits of this test's own invention; none of their
+//! numbers comes from the issue text or the demo kit).
+//!
+//! Each check value names its source beside it: a closed form from DESIGN.md
+//! (half-disc crossing, lens maker's formula, thick-lens formulas), the issue's
+//! answer-file spec, or "common practice, no source".
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+use serde_json::Value;
+
+const BIN: &str = env!("CARGO_BIN_EXE_raysheet");
+
+/// Outcome words the answer file may use (issue 2, section 4).
+const OUTCOMES: [&str; 6] =
+    ["crosses", "virtual", "total-internal-reflection", "leaves-through-edge", "parallel", "on-axis"];
+
+fn fixture(name: &str) -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures").join(name)
+}
+
+/// A temporary folder holding copies of the named fixtures.
+fn folder_with(fixtures: &[&str]) -> tempfile::TempDir {
+    let dir = tempfile::tempdir().expect("a temporary folder");
+    for f in fixtures {
+        std::fs::copy(fixture(f), dir.path().join(f)).expect("fixture copied");
+    }
+    dir
+}
+
+fn run(dir: &Path, args: &[&str]) -> Output {
+    Command::new(BIN).args(args).current_dir(dir).output().expect("the raysheet binary runs")
+}
+
+fn stdout(o: &Output) -> String {
+    String::from_utf8(o.stdout.clone()).expect("stdout is UTF-8")
+}
+
+fn stderr(o: &Output) -> String {
+    String::from_utf8(o.stderr.clone()).expect("stderr is UTF-8")
+}
+
+fn assert_exit(o: &Output, code: i32) {
+    assert_eq!(o.status.code(), Some(code), "exit status\nstdout:\n{}\nstderr:\n{}", stdout(o), stderr(o));
+}
+
+fn assert_close(actual: f64, expected: f64, tol: f64, what: &str) {
+    assert!(
+        (actual - expected).abs() <= tol,
+        "{what}: got {actual}, expected {expected} (difference {:e}, tolerance {tol:e})",
+        actual - expected
+    );
+}
+
+/// Files in `dir` other than the given ones: check and solve write nothing.
+fn extra_files(dir: &Path, expected: &[&str]) -> Vec<String> {
+    let mut out: Vec<String> = std::fs::read_dir(dir)
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .filter(|n| !expected.contains(&n.as_str()))
+        .collect();
+    out.sort();
+    out
+}
+
+fn solve_json(kit: &str) -> Value {
+    let dir = folder_with(&[kit]);
+    let o = run(dir.path(), &["solve", kit, "--json"]);
+    assert_exit(&o, 0);
+    assert!(extra_files(dir.path(), &[kit]).is_empty(), "solve wrote files");
+    serde_json::from_str(&stdout(&o))
+        .unwrap_or_else(|e| panic!("solve --json is not JSON ({e}):\n{}", stdout(&o)))
+}
+
+fn num(v: &Value, key: &str) -> f64 {
+    v[key].as_f64().unwrap_or_else(|| panic!("`{key}` is a number in {v}"))
+}
+
+fn sheet<'a>(answers: &'a Value, piece: &str) -> &'a Value {
+    answers["sheets"]
+        .as_array()
+        .expect("`sheets` is a list")
+        .iter()
+        .find(|s| s["piece"] == piece)
+        .unwrap_or_else(|| panic!("no sheet for piece {piece}"))
+}
+
+/// DESIGN.md, half-disc flat face first: sin θ1 = h/R, sin θ2 = n·h/R; the ray
+/// meets the axis R·n·sin θ1 / sin(θ2 − θ1) from the flat face.
+fn half_disc_crossing(r: f64, n: f64, h: f64) -> f64 {
+    let t1 = (h.abs() / r).asin();
+    let t2 = (n * h.abs() / r).asin();
+    r * n * t1.sin() / (t2 - t1).sin()
+}
+
+/// DESIGN.md thick lens in air from signed radii (None: flat):
+/// (EFL, BFL, front focal distance).
+fn thick_lens(r1: Option<f64>, r2: Option<f64>, t: f64, n: f64) -> (f64, f64, f64) {
+    let c = |r: Option<f64>| r.map_or(0.0, |r| 1.0 / r);
+    let p1 = (n - 1.0) * c(r1);
+    let p2 = (1.0 - n) * c(r2);
+    let efl = 1.0 / (p1 + p2 - t / n * p1 * p2);
+    (efl, efl * (1.0 - t * p1 / n), efl * (1.0 - t * p2 / n))
+}
+
+// ---------------------------------------------------------------------- check
+
+#[test]
+fn check_prints_the_pieces_table_and_safe_bands_with_reasons() {
+    let dir = folder_with(&["bench_w3.toml"]);
+    let o = run(dir.path(), &["check", "bench_w3.toml"]);
+    assert_exit(&o, 0);
+    let out = stdout(&o);
+    assert!(stderr(&o).is_empty(), "{}", stderr(&o));
+    assert!(out.starts_with("Marlow Street, bench W3\n"), "{out}");
+    assert!(out.contains("Pieces"), "{out}");
+    // One row per piece with its thin-lens focal length (lens maker's formula,
+    // DESIGN.md): hd33 R/(n − 1) = 33/0.5 = 66; cx100 1/f = 0.5·(2/100) → 100;
+    // cc80 1/f = 0.5·(−2/80) → −80.
+    for (id, faces, thin) in [
+        ("hd33", "flat / convex R33", "66.00"),
+        ("cx100", "convex R100 / convex R100", "100.00"),
+        ("cc80", "concave R80 / concave R80", "-80.00"),
+    ] {
+        let row = out
+            .lines()
+            .find(|l| l.trim_start().starts_with(id))
+            .unwrap_or_else(|| panic!("no row for {id}:\n{out}"));
+        assert!(row.contains(faces), "{row}");
+        assert!(row.split_whitespace().any(|w| w == thin), "{id}: thin f {thin} missing in {row}");
+    }
+    // Every sheet has a safe band and says why each end ends.
+    assert_eq!(out.matches("safe band: ").count(), 3, "{out}");
+    assert_eq!(out.matches("    lower end: below ").count(), 3, "{out}");
+    assert_eq!(out.matches("    upper end: above ").count(), 3, "{out}");
+    // The half-disc band ends near the critical angle (DESIGN.md: TIR above
+    // h = R/n = 22 mm; asin(1/1.5) = 41.8°).
+    assert!(out.contains("critical angle (41.8°)"), "{out}");
+    assert!(extra_files(dir.path(), &["bench_w3.toml"]).is_empty(), "check wrote files");
+}
+
+#[test]
+fn check_on_a_kit_with_pieces_and_no_sheets_reports_its_pieces() {
+    let dir = folder_with(&["pieces_only.toml"]);
+    let o = run(dir.path(), &["check", "pieces_only.toml"]);
+    assert_exit(&o, 0);
+    let out = stdout(&o);
+    assert!(out.contains("Pieces"), "{out}");
+    // pcx-47: lens maker's formula (DESIGN.md) 1/f = 0.52/47 → 90.38 mm; the
+    // flat block has no focal length.
+    let row = out.lines().find(|l| l.trim_start().starts_with("pcx-47")).expect("pcx-47 row");
+    assert!(row.contains("90.38"), "{row}");
+    let row = out.lines().find(|l| l.trim_start().starts_with("block-30")).expect("block-30 row");
+    assert!(row.contains("none"), "{row}");
+    assert!(out.contains("No sheets"), "{out}");
+    assert!(!out.contains("safe band"), "{out}");
+}
+
+#[test]
+fn check_warns_about_a_fixed_height_outside_the_band() {
+    // 2 mm lies inside hd33 but below its safe band (there the crossing is
+    // too shallow to locate well): accepted, with a warning that says why.
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(fixture("bench_w3.toml")).unwrap().replace("[8, -8, 15]", "[8, 2]");
+    std::fs::write(dir.path().join("kit.toml"), text).unwrap();
+    let o = run(dir.path(), &["check", "kit.toml"]);
+    assert_exit(&o, 0);
+    let out = stdout(&o);
+    assert!(out.contains("warning: guide height 2 mm lies outside the safe band"), "{out}");
+}
+
+// ---------------------------------------------------------------------- solve
+
+#[test]
+fn solve_json_has_the_fixed_fields() {
+    let a = solve_json("bench_w3.toml");
+    assert_eq!(a["format"], 1);
+    assert_eq!(a["kit"], "Marlow Street, bench W3");
+    let sheets = a["sheets"].as_array().expect("`sheets` is a list");
+    assert_eq!(sheets.len(), 3);
+    for (i, s) in sheets.iter().enumerate() {
+        assert_eq!(s["sheet"], i + 1, "{s}");
+        assert!(["curved-face", "focal"].contains(&s["kind"].as_str().unwrap()), "{s}");
+        assert!(s["piece"].is_string(), "{s}");
+        assert_eq!(s["enter"], "front", "{s}");
+        assert!(s["group"].is_null() && s["variant"].is_null(), "{s}");
+        assert_eq!(s["index"], 1.5);
+        for k in ["thin_lens_focal_mm", "efl_mm", "bfl_mm", "front_focal_mm"] {
+            assert!(s["paraxial"][k].is_f64(), "paraxial.{k} in {s}");
+        }
+        let band = &s["safe_band_mm"];
+        assert!(num(band, "min") < num(band, "max"), "{band}");
+        assert!(band["max_reason"].as_str().is_some_and(|r| r.starts_with("above ")), "{band}");
+        let rays = s["rays"].as_array().expect("`rays` is a list");
+        assert!(!rays.is_empty());
+        for r in rays {
+            assert!(r["height_mm"].is_f64(), "{r}");
+            let outcome = r["outcome"].as_str().expect("outcome is text");
+            assert!(OUTCOMES.contains(&outcome), "outcome {outcome:?} not in {OUTCOMES:?}");
+            assert!(r["exit_face"].as_str().is_some_and(|f| ["front", "back", "edge"].contains(&f)), "{r}");
+            if ["crosses", "virtual"].contains(&outcome) {
+                // crossing_from_exit = crossing_from_entry − t (issue 2, section 3).
+                let t = match s["piece"].as_str().unwrap() {
+                    "hd33" => 33.0,
+                    "cx100" => 10.0,
+                    _ => 4.0,
+                };
+                assert_close(
+                    num(r, "crossing_from_exit_mm"),
+                    num(r, "crossing_from_entry_mm") - t,
+                    1e-9,
+                    "from exit",
+                );
+            }
+        }
+    }
+}
+
+#[test]
+fn solve_json_curved_face_matches_the_half_disc_closed_form() {
+    let a = solve_json("bench_w3.toml");
+    let s = sheet(&a, "hd33");
+    assert_eq!(s["kind"], "curved-face");
+    let (r, n, t) = (33.0, 1.5, 33.0);
+    // Paraxial (DESIGN.md): R/(n − 1) = 66 from the curved vertex; thick-lens
+    // front focal distance EFL(1 − t·P2/n) = 66·(1 − 1/3) = 44.
+    let px = &s["paraxial"];
+    assert_close(num(px, "thin_lens_focal_mm"), r / (n - 1.0), 1e-9, "thin f");
+    let (efl, bfl, ffd) = thick_lens(None, Some(-r), t, n);
+    assert_close(num(px, "efl_mm"), efl, 1e-9, "EFL");
+    assert_close(num(px, "bfl_mm"), bfl, 1e-9, "BFL");
+    assert_close(num(px, "bfl_mm"), 66.0, 1e-9, "BFL = R/(n − 1)");
+    assert_close(num(px, "front_focal_mm"), ffd, 1e-9, "front focal distance");
+    assert_close(num(px, "front_focal_mm"), 44.0, 1e-9, "front focal distance");
+    let rays = s["rays"].as_array().unwrap();
+    let heights: Vec<f64> = rays.iter().map(|r| num(r, "height_mm")).collect();
+    assert_eq!(heights, [8.0, -8.0, 15.0], "the fixed heights, in kit order");
+    for ray in rays {
+        let h = num(ray, "height_mm");
+        assert_eq!(ray["outcome"], "crosses");
+        assert_eq!(ray["exit_face"], "back");
+        // DESIGN.md half-disc closed form, from the flat (entry) face.
+        let x = half_disc_crossing(r, n, h);
+        assert_close(num(ray, "crossing_from_entry_mm"), x, 1e-9, &format!("h = {h}: from entry"));
+        assert_close(num(ray, "crossing_from_exit_mm"), x - t, 1e-9, &format!("h = {h}: from exit"));
+    }
+    // Common practice, no source: the higher ray crosses nearer the piece.
+    assert!(num(&rays[2], "crossing_from_entry_mm") < num(&rays[0], "crossing_from_entry_mm"));
+}
+
+#[test]
+fn focal_sheet_without_heights_uses_the_ray_box_centred_on_the_axis() {
+    let a = solve_json("bench_w3.toml");
+    let s = sheet(&a, "cx100");
+    assert_eq!(s["kind"], "focal");
+    // Lens maker's formula (DESIGN.md): 1/f = 0.5·(1/100 + 1/100) → 100 mm;
+    // thick lens (DESIGN.md) for t = 10 mm.
+    let px = &s["paraxial"];
+    assert_close(num(px, "thin_lens_focal_mm"), 100.0, 1e-9, "thin f");
+    let (efl, bfl, ffd) = thick_lens(Some(100.0), Some(-100.0), 10.0, 1.5);
+    assert_close(num(px, "efl_mm"), efl, 1e-9, "EFL");
+    assert_close(num(px, "bfl_mm"), bfl, 1e-9, "BFL");
+    assert_close(num(px, "front_focal_mm"), ffd, 1e-9, "front focal distance");
+    // The fixture's ray box: 5 rays 7 mm apart, centred (issue 2, section 4).
+    let rays = s["rays"].as_array().unwrap();
+    let mut heights: Vec<f64> = rays.iter().map(|r| num(r, "height_mm")).collect();
+    heights.sort_by(f64::total_cmp);
+    assert_eq!(heights, [-14.0, -7.0, 0.0, 7.0, 14.0]);
+    let middle = rays.iter().find(|r| num(r, "height_mm") == 0.0).unwrap();
+    assert_eq!(middle["outcome"], "on-axis");
+    assert!(middle.get("crossing_from_entry_mm").is_none(), "{middle}");
+    assert!(middle.get("crossing_from_exit_mm").is_none(), "{middle}");
+    for r in rays.iter().filter(|r| num(r, "height_mm") != 0.0) {
+        assert_eq!(r["outcome"], "crosses", "{r}");
+        // Near the paraxial focus but short of it: spherical aberration (common
+        // practice, no source) pulls the crossing toward the piece.
+        let x = num(r, "crossing_from_exit_mm");
+        assert!(x < bfl && x > bfl - 5.0, "{r}");
+    }
+    // Common practice, no source: rays at ±h cross at the same point.
+    let at = |h: f64| num(rays.iter().find(|r| num(r, "height_mm") == h).unwrap(), "crossing_from_entry_mm");
+    assert_close(at(7.0), at(-7.0), 1e-9, "±7 mm");
+    assert_close(at(14.0), at(-14.0), 1e-9, "±14 mm");
+    assert!(at(14.0) < at(7.0), "higher ray crosses nearer");
+}
+
+#[test]
+fn diverging_sheet_has_virtual_crossings_and_a_negative_bfl() {
+    let a = solve_json("bench_w3.toml");
+    let s = sheet(&a, "cc80");
+    let px = &s["paraxial"];
+    // Lens maker's formula (DESIGN.md): 1/f = 0.5·(−1/80 − 1/80) → −80 mm.
+    assert_close(num(px, "thin_lens_focal_mm"), -80.0, 1e-9, "thin f");
+    let (efl, bfl, _) = thick_lens(Some(-80.0), Some(80.0), 4.0, 1.5);
+    assert!(bfl < 0.0);
+    assert_close(num(px, "efl_mm"), efl, 1e-9, "EFL");
+    assert_close(num(px, "bfl_mm"), bfl, 1e-9, "BFL");
+    for r in s["rays"].as_array().unwrap() {
+        if num(r, "height_mm") == 0.0 {
+            assert_eq!(r["outcome"], "on-axis");
+            continue;
+        }
+        assert_eq!(r["outcome"], "virtual", "{r}");
+        // The virtual crossing lies before the exit vertex, near the virtual focus.
+        let x = num(r, "crossing_from_exit_mm");
+        assert!(x < 0.0 && (x - bfl).abs() < 6.0, "{r}");
+    }
+}
+
+#[test]
+fn solve_without_json_prints_a_table() {
+    let dir = folder_with(&["bench_w3.toml"]);
+    let o = run(dir.path(), &["solve", "bench_w3.toml"]);
+    assert_exit(&o, 0);
+    let out = stdout(&o);
+    assert!(out.contains("Sheet 1: curved-face with piece hd33"), "{out}");
+    assert!(out.contains("on-axis"), "{out}");
+    assert!(serde_json::from_str::<Value>(&out).is_err());
+}
+
+// ---------------------------------------------------------------- exit codes
+
+#[test]
+fn bad_kit_exits_2_with_file_line_column_on_stderr() {
+    let dir = folder_with(&["bad_height.toml"]);
+    let text = std::fs::read_to_string(fixture("bad_height.toml")).unwrap();
+    // The error must point at the 29 in `heights_mm = [6, 29]`.
+    let (ln, l) = text.lines().enumerate().find(|(_, l)| l.starts_with("heights_mm")).unwrap();
+    let place = format!("bad_height.toml:{}:{}:", ln + 1, l.find("29").unwrap() + 1);
+    for args in [&["check", "bad_height.toml"][..], &["solve", "bad_height.toml", "--json"][..]] {
+        let cmd = args[0];
+        let o = run(dir.path(), args);
+        assert_exit(&o, 2);
+        let err = stderr(&o);
+        assert!(err.contains(&place), "{cmd}: expected {place:?} in:\n{err}");
+        assert!(err.contains("field `sheets[1].heights_mm[2]`"), "{err}");
+        assert!(err.contains("hint: give heights between -24 and 24 mm"), "{err}");
+        assert!(stdout(&o).is_empty(), "{cmd} printed:\n{}", stdout(&o));
+    }
+}
+
+#[test]
+fn missing_kit_file_exits_2() {
+    let dir = tempfile::tempdir().unwrap();
+    for cmd in ["check", "solve"] {
+        let o = run(dir.path(), &[cmd, "no-such-kit.toml"]);
+        assert_exit(&o, 2);
+        assert!(stderr(&o).contains("no-such-kit.toml"), "{}", stderr(&o));
+        assert!(stdout(&o).is_empty());
+    }
+}
+
+#[test]
+fn kit_that_is_not_utf8_exits_2() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("latin1.toml"), b"title = \"Salle \xe9\"\n").unwrap();
+    let o = run(dir.path(), &["check", "latin1.toml"]);
+    assert_exit(&o, 2);
+    assert!(stderr(&o).contains("UTF-8"), "{}", stderr(&o));
+}
+
+#[test]
+fn unknown_flag_exits_2() {
+    let dir = folder_with(&["bench_w3.toml"]);
+    let o = run(dir.path(), &["check", "bench_w3.toml", "--frobnicate"]);
+    assert_exit(&o, 2);
+    assert!(stderr(&o).contains("--frobnicate"), "{}", stderr(&o));
+    let o = run(dir.path(), &["solve", "--jsn", "bench_w3.toml"]);
+    assert_exit(&o, 2);
+    let o = run(dir.path(), &[]);
+    assert_exit(&o, 2);
+}
+
+#[test]
+fn bad_paper_flag_exits_2() {
+    let dir = folder_with(&["bench_w3.toml"]);
+    let o = run(dir.path(), &["check", "bench_w3.toml", "--paper", "B7"]);
+    assert_exit(&o, 2);
+    assert!(stderr(&o).contains("--paper"), "{}", stderr(&o));
+}
+
+// ----------------------------------------------------------------------- demo
+
+#[test]
+fn demo_print_kit_is_a_kit_that_check_accepts() {
+    let dir = tempfile::tempdir().unwrap();
+    let o = run(dir.path(), &["demo", "--print-kit"]);
+    assert_exit(&o, 0);
+    let text = stdout(&o);
+    assert_eq!(text, raysheet::demo::DEMO_KIT);
+    assert!(extra_files(dir.path(), &[]).is_empty(), "--print-kit wrote files");
+    std::fs::write(dir.path().join("my-kit.toml"), &text).unwrap();
+    let o = run(dir.path(), &["check", "my-kit.toml"]);
+    assert_exit(&o, 0);
+    let out = stdout(&o);
+    assert!(out.contains("Pieces") && out.contains("safe band"), "{out}");
+    let o = run(dir.path(), &["solve", "my-kit.toml", "--json"]);
+    assert_exit(&o, 0);
+    let a: Value = serde_json::from_str(&stdout(&o)).expect("JSON");
+    assert!(!a["sheets"].as_array().unwrap().is_empty());
+}
