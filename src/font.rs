@@ -35,8 +35,32 @@ pub fn face(weight: Weight) -> &'static ttf_parser::Face<'static> {
     })
 }
 
+/// Characters below this code point are looked up once and kept in a table
+/// (Latin, Greek, Cyrillic, punctuation, arrows and maths operators).
+const TABLE_CHARS: u32 = 0x2400;
+
+/// Glyph ids for the characters below [`TABLE_CHARS`], by face (0 = missing).
+fn table(weight: Weight) -> &'static [u16] {
+    static R: OnceLock<Vec<u16>> = OnceLock::new();
+    static B: OnceLock<Vec<u16>> = OnceLock::new();
+    let cell = match weight {
+        Weight::Regular => &R,
+        Weight::Bold => &B,
+    };
+    cell.get_or_init(|| {
+        (0..TABLE_CHARS)
+            .map(|c| char::from_u32(c).and_then(|ch| face(weight).glyph_index(ch)).map_or(0, |g| g.0))
+            .collect()
+    })
+}
+
 /// Glyph id of `ch` in the face, `None` if the font cannot show it.
 pub fn glyph_id(weight: Weight, ch: char) -> Option<u16> {
+    let code = ch as u32;
+    if code < TABLE_CHARS {
+        let g = table(weight)[code as usize];
+        return (g != 0).then_some(g);
+    }
     face(weight).glyph_index(ch).map(|g| g.0)
 }
 

@@ -258,16 +258,6 @@ fn header(
     } else {
         String::new()
     };
-    items.push(text(
-        Point::new(left, top - 10.5),
-        &format!(
-            "{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}",
-            p.entry.as_str()
-        ),
-        BODY_PT,
-        Weight::Regular,
-        Anchor::Start,
-    ));
     // The identity box: group and variant code (or the sheet number).
     let mut lines = Vec::new();
     if let Some(g) = &p.group {
@@ -285,9 +275,28 @@ fn header(
         let y = top - 6.25 + (n - 1.0) * 2.3 - i as f64 * 4.6 - 1.3;
         items.push(text(Point::new(right - 3.0, y), l, 10.0, Weight::Bold, Anchor::End));
     }
+    // The subtitle fits left of the identity box: 8 pt, else two lines of 7 pt.
+    let subtitle = format!(
+        "{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}",
+        p.entry.as_str()
+    );
+    let room = bx.min.x - 3.0 - left;
+    if crate::font::text_width_mm(&subtitle, BODY_PT, Weight::Regular) <= room {
+        items.push(text(Point::new(left, top - 10.5), &subtitle, BODY_PT, Weight::Regular, Anchor::Start));
+    } else {
+        for (i, l) in wrap(&subtitle, 7.0, Weight::Regular, room).iter().take(2).enumerate() {
+            items.push(text(
+                Point::new(left, top - 9.4 - 3.0 * i as f64),
+                l,
+                7.0,
+                Weight::Regular,
+                Anchor::Start,
+            ));
+        }
+    }
     items.push(Item::Line {
-        from: Point::new(left, top - 13.5),
-        to: Point::new(bx.min.x - 3.0, top - 13.5),
+        from: Point::new(left, top - 14.0),
+        to: Point::new(bx.min.x - 3.0, top - 14.0),
         stroke: Stroke::solid(0.2),
     });
     items

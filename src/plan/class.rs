@@ -2,7 +2,7 @@
 //! allows, entry side), drawn inside each sheet's safe band on a ruler grid.
 
 use super::variants::{draw_code, sheet_stream, shuffle};
-use super::{SheetPlan, plan_sheet, safe_band, to_grid};
+use super::{SheetPlan, plan_sheet, plan_sheet_in_band, safe_band, to_grid};
 use crate::kit::{Kit, SheetKind, SheetSpec};
 use crate::optics::{Entry, Outline, Paraxial};
 use crate::paper::PaperSpec;
@@ -36,6 +36,14 @@ struct Setting {
     heights: Vec<f64>,
 }
 
+/// The safe band for one entry side of a sheet.
+fn band_for(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec, entry: Entry) -> Option<super::SafeBand> {
+    let piece = kit.pieces[spec.piece].piece;
+    let outline = Outline::new(piece, entry);
+    let lead = super::lead_in_for(&Paraxial::of(&piece, entry), paper);
+    safe_band(&outline, &super::rules_for(kit, paper, &outline, lead))
+}
+
 fn grid_values(lo: f64, hi: f64, grid: f64) -> Vec<f64> {
     let a = (lo / grid - 1e-9).ceil() as i64;
     let b = (hi / grid + 1e-9).floor() as i64;
@@ -52,12 +60,9 @@ fn settings(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec) -> Vec<Setting> {
     }
     let entries = if spec.vary_entry { vec![spec.entry, spec.entry.flipped()] } else { vec![spec.entry] };
     let mut out = Vec::new();
+    let _ = piece;
     for entry in entries {
-        let outline = Outline::new(piece, entry);
-        let paraxial = Paraxial::of(&piece, entry);
-        let lead = super::lead_in_for(&paraxial, paper);
-        let rules = super::rules_for(kit, paper, &outline, lead);
-        let Some(band) = safe_band(&outline, &rules) else { continue };
+        let Some(band) = band_for(kit, spec, paper, entry) else { continue };
         match spec.kind {
             SheetKind::CurvedFace => {
                 // A symmetric pair ±low (rays at the same height on both sides
@@ -129,9 +134,11 @@ pub fn plan_class(kit: &Kit, paper: &PaperSpec, groups: Vec<Group>, seed: u64) -
             ));
         }
         shuffle(&mut rng, &mut options);
+        let bands = [band_for(kit, spec, paper, Entry::Front), band_for(kit, spec, paper, Entry::Back)];
+        let band = |e: Entry| bands[usize::from(e == Entry::Back)].clone();
         for (g, group) in groups.iter().enumerate() {
             let plan = match options.get(g % options.len().max(1)) {
-                Some(o) => plan_sheet(kit, spec, paper, o.entry, Some(&o.heights)),
+                Some(o) => plan_sheet_in_band(kit, spec, paper, o.entry, Some(&o.heights), band(o.entry)),
                 None => plan_sheet(kit, spec, paper, spec.entry, None),
             };
             let mut plan = plan;

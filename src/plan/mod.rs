@@ -119,7 +119,9 @@ impl SheetPlan {
 }
 
 /// Band rules for a sheet on this paper: the page's printable length along the
-/// axis (the long side in landscape) bounds where crossings may fall.
+/// axis (the long side in landscape) bounds where crossings may fall. When
+/// even the paraxial focus falls beyond one page the setup is tiled anyway,
+/// so the page bound is dropped.
 pub fn rules_for(kit: &Kit, paper: &PaperSpec, outline: &Outline, lead_in_mm: f64) -> BandRules {
     let mut rules = BandRules::for_ray_width(kit.ray_box.ray_width_mm);
     let (page_w, _) = paper.page_mm();
@@ -128,6 +130,12 @@ pub fn rules_for(kit: &Kit, paper: &PaperSpec, outline: &Outline, lead_in_mm: f6
     let left = x0 - lead_in_mm;
     rules.room_after_exit_mm = left + printable - outline.t() - TAIL_MM;
     rules.room_before_entry_mm = -left - 5.0;
+    if let Some(f) = Paraxial::of(&outline.piece, outline.entry).rear_focus_x() {
+        if f > outline.t() + rules.room_after_exit_mm || f < -rules.room_before_entry_mm {
+            rules.room_after_exit_mm = f64::INFINITY;
+            rules.room_before_entry_mm = f64::INFINITY;
+        }
+    }
     rules
 }
 
@@ -213,12 +221,28 @@ pub fn plan_sheet(
     entry: Entry,
     heights: Option<&[f64]>,
 ) -> SheetPlan {
+    let outline = Outline::new(kit.pieces[spec.piece].piece, entry);
+    let paraxial = Paraxial::of(&outline.piece, entry);
+    let rules = rules_for(kit, paper, &outline, lead_in_for(&paraxial, paper));
+    let band = safe_band(&outline, &rules);
+    plan_sheet_in_band(kit, spec, paper, entry, heights, band)
+}
+
+/// [`plan_sheet`] with the safe band already worked out (class sets reuse it
+/// for every group).
+pub fn plan_sheet_in_band(
+    kit: &Kit,
+    spec: &SheetSpec,
+    paper: &PaperSpec,
+    entry: Entry,
+    heights: Option<&[f64]>,
+    band: Option<SafeBand>,
+) -> SheetPlan {
     let kp = &kit.pieces[spec.piece];
     let outline = Outline::new(kp.piece, entry);
     let paraxial = Paraxial::of(&kp.piece, entry);
     let lead_in = lead_in_for(&paraxial, paper);
     let rules = rules_for(kit, paper, &outline, lead_in);
-    let band = safe_band(&outline, &rules);
     let a = outline.a();
     let heights: Vec<f64> = match heights {
         Some(h) => h.to_vec(),

@@ -109,7 +109,7 @@ impl Refs {
 
 /// FlateDecode (zlib) at a fixed level: the same input always gives the same bytes.
 fn deflate(data: &[u8]) -> Vec<u8> {
-    miniz_oxide::deflate::compress_to_vec_zlib(data, 6)
+    miniz_oxide::deflate::compress_to_vec_zlib(data, 4)
 }
 
 /// Two 64-bit FNV-1a hashes (different starting values) over the same bytes:
