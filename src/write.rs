@@ -71,16 +71,38 @@ pub fn write_all(dir: &Path, files: &[Output], force: bool) -> Result<Vec<PathBu
             )));
         }
     }
+    // Every folder the outputs need must be a folder (or not exist yet):
+    // checked before anything is written.
+    let mut folders: BTreeSet<PathBuf> = BTreeSet::new();
+    for f in files {
+        let mut p = dir.join(&f.path);
+        while p.pop() && p.starts_with(dir) && p != dir {
+            folders.insert(p.clone());
+        }
+    }
+    for folder in &folders {
+        if folder.exists() && !folder.is_dir() {
+            return Err(WriteError::Refused(format!(
+                "{}: exists and is not a folder, but raysheet needs a folder there; move it or give another --out",
+                folder.display()
+            )));
+        }
+    }
     fs::create_dir_all(dir).map_err(|e| io(dir, "create the folder", e))?;
-    let mut written = Vec::new();
+    for folder in &folders {
+        fs::create_dir_all(folder).map_err(|e| io(folder, "create the folder", e))?;
+    }
+    // Claim every output in the manifest first, so a build that fails midway
+    // never leaves files the next build would refuse as the user's.
     let mut manifest: BTreeSet<String> = ours;
+    manifest.extend(files.iter().map(|f| f.path.clone()));
+    let list: String = manifest.iter().map(|p| format!("{p}\n")).collect();
+    write_atomic(&dir.join(MANIFEST), list.as_bytes())?;
+    let mut written = Vec::new();
     for f in files {
         let path = dir.join(&f.path);
         write_atomic(&path, &f.bytes)?;
-        manifest.insert(f.path.clone());
         written.push(path);
     }
-    let list: String = manifest.iter().map(|p| format!("{p}\n")).collect();
-    write_atomic(&dir.join(MANIFEST), list.as_bytes())?;
     Ok(written)
 }

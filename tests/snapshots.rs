@@ -24,8 +24,9 @@ fn check(name: &str, actual: &[u8]) {
         std::fs::write(&path, actual).expect("write snapshot");
         return;
     }
-    let expected = std::fs::read(&path)
-        .unwrap_or_else(|e| panic!("{}: {e}; run RAYSHEET_BLESS=1 cargo test --test snapshots", path.display()));
+    let expected = std::fs::read(&path).unwrap_or_else(|e| {
+        panic!("{}: {e}; run RAYSHEET_BLESS=1 cargo test --test snapshots", path.display())
+    });
     if expected != actual {
         let out = std::env::temp_dir().join(format!("raysheet-new-{name}"));
         let _ = std::fs::write(&out, actual);

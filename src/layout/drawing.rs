@@ -288,12 +288,19 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing) -> Vec<Item> {
         } else {
             format!("{}: {} mm {}", letters.join(", "), fmt1(dist), reference.0)
         };
-        let cands: Vec<(Point, Anchor)> = (0..8)
-            .flat_map(|k| {
-                let dy = 3.2 + 3.4 * f64::from(k);
-                [(Point::new(*x, -dy - 1.5), Anchor::Middle), (Point::new(*x, dy), Anchor::Middle)]
-            })
-            .collect();
+        // A virtual crossing's dashed extensions fan out to its right, so its
+        // label goes first to its left, just off the axis.
+        let mut cands: Vec<(Point, Anchor)> = Vec::new();
+        if *is_virtual {
+            for dx in [2.0, 6.0] {
+                cands.push((Point::new(x - dx, 1.2), Anchor::End));
+                cands.push((Point::new(x - dx, -3.4), Anchor::End));
+            }
+        }
+        cands.extend((0..8).flat_map(|k| {
+            let dy = 3.2 + 3.4 * f64::from(k);
+            [(Point::new(*x, -dy - 1.5), Anchor::Middle), (Point::new(*x, dy), Anchor::Middle)]
+        }));
         let mut d2 = Drawing { items: Vec::new(), placer: std::mem::take(&mut base.placer) };
         place_label(&mut d2, &bounds, &value, 6.5, &cands);
         base.placer = d2.placer;

@@ -333,12 +333,17 @@ fn key_values(p: &SheetPlan) -> Vec<String> {
     let px = &p.paraxial;
     let mut v = Vec::new();
     let mm = |x: Option<f64>| x.map(|x| format!("{} mm", f1(x))).unwrap_or_else(|| "none".into());
+    let front = match px.front_focal_mm() {
+        Some(d) if d < 0.0 => {
+            format!("the front focal point lies {} after the entry face (virtual)", mm(Some(-d)))
+        }
+        d => format!("front focal distance {} before the entry face", mm(d)),
+    };
     v.push(format!(
-        "Lens maker's formula (thin lens): f = {}. Thick piece: focal length (EFL) {}, back focal length (BFL) {} from the exit face, front focal distance {}.",
+        "Lens maker's formula (thin lens): f = {}. Thick piece: focal length (EFL) {}, back focal length (BFL) {} from the exit face; {front}.",
         mm(px.thin_lens_focal_mm()),
         mm(px.efl_mm()),
         mm(px.bfl_mm()),
-        mm(px.front_focal_mm())
     ));
     match px.efl_mm() {
         Some(f) if f < 0.0 => v.push(format!(

@@ -29,7 +29,8 @@ fn nice_step(span: f64, n: f64) -> f64 {
 pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
     let mut items = Vec::new();
     let o = &plan.outline;
-    let t = o.t();
+    // The same reference as the sheet's table: the flat face or the exit face.
+    let (t, ref_words) = plan.measure_from();
     let top_h = plan.band.as_ref().map(|b| b.max_mm).unwrap_or(o.a() * 0.6).min(o.a());
     let n = 48;
     let mut pts: Vec<(f64, f64)> = Vec::new();
@@ -39,7 +40,7 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
             pts.push((h, (x_mm - t).abs()));
         }
     }
-    let parax = plan.paraxial.bfl_mm().map(f64::abs);
+    let parax = plan.paraxial.rear_focus_x().map(|f| (f - t).abs());
     if pts.is_empty() {
         return items;
     }
@@ -107,11 +108,11 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
         stroke: Stroke::solid(0.35),
     });
     for r in &plan.rays {
-        if let Some(x) = r.crossing_from_exit_mm {
+        if let Some(x) = r.crossing_from_entry_mm {
             let h = r.height_mm.abs();
             if h <= x1 && h > 0.0 {
                 items.push(Item::Marker {
-                    at: map(h, x.abs()),
+                    at: map(h, (x - t).abs()),
                     shape: MarkerShape::Dot,
                     size_mm: 1.4,
                     stroke: Stroke::solid(0.2),
@@ -135,7 +136,7 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
     ));
     items.push(Item::Text {
         at: Point::new(area.min.x + 1.8, (inner.min.y + inner.max.y) / 2.0),
-        text: "mm from exit face".into(),
+        text: format!("mm {ref_words}"),
         size_pt: 6.0,
         weight: Weight::Regular,
         anchor: Anchor::Middle,

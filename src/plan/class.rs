@@ -58,7 +58,11 @@ fn settings(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec) -> Vec<Setting> {
     if let Some(h) = &spec.heights_mm {
         return vec![Setting { entry: spec.entry, heights: h.clone() }];
     }
-    let entries = if spec.vary_entry { vec![spec.entry, spec.entry.flipped()] } else { vec![spec.entry] };
+    // Turning round a piece whose two faces are alike gives the same setup, so
+    // it adds no variety.
+    let symmetric = piece.front() == piece.back();
+    let entries =
+        if spec.vary_entry && !symmetric { vec![spec.entry, spec.entry.flipped()] } else { vec![spec.entry] };
     let mut out = Vec::new();
     let _ = piece;
     for entry in entries {
@@ -115,6 +119,13 @@ pub fn plan_class(kit: &Kit, paper: &PaperSpec, groups: Vec<Group>, seed: u64) -
     for spec in &kit.sheets {
         let mut options = settings(kit, spec, paper);
         let mut rng = sheet_stream(seed, spec.number);
+        let piece = kit.pieces[spec.piece].piece;
+        if spec.vary_entry && piece.front() == piece.back() {
+            notes.push(format!(
+                "sheet {}: piece {} has two alike faces, so turning it round (vary_entry) gives no new settings",
+                spec.number, kit.pieces[spec.piece].id
+            ));
+        }
         if spec.heights_mm.is_some() {
             notes.push(format!(
                 "sheet {} has fixed heights_mm, so every group gets the same guide heights",

@@ -1,0 +1,274 @@
+//! The real `raysheet` binary run in temporary folders: `build` and `demo`
+//! outputs, overwriting only its own files, and the exit codes of src/main.rs
+//! (0 success, 2 bad input or usage, 1 anything else) with clear messages and
+//! nothing half-written.
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+fn raysheet(args: &[&str], cwd: &Path) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_raysheet"))
+        .args(args)
+        .current_dir(cwd)
+        .output()
+        .expect("the binary runs")
+}
+
+fn fixture(name: &str) -> String {
+    format!("{}/tests/fixtures/{name}", env!("CARGO_MANIFEST_DIR"))
+}
+
+fn text(b: &[u8]) -> String {
+    String::from_utf8_lossy(b).into_owned()
+}
+
+/// Exit code, with both streams in the message when it is not `want`.
+fn assert_code(out: &Output, want: i32) {
+    assert_eq!(
+        out.status.code(),
+        Some(want),
+        "exit code\n--- stdout\n{}\n--- stderr\n{}",
+        text(&out.stdout),
+        text(&out.stderr)
+    );
+}
+
+/// Every file under `dir`, relative, sorted (empty when `dir` does not exist).
+fn files_under(dir: &Path) -> Vec<String> {
+    fn walk(root: &Path, dir: &Path, out: &mut Vec<String>) {
+        let Ok(entries) = std::fs::read_dir(dir) else { return };
+        for e in entries.flatten() {
+            let p = e.path();
+            if p.is_dir() {
+                walk(root, &p, out);
+            } else {
+                out.push(p.strip_prefix(root).unwrap().to_string_lossy().replace('\\', "/"));
+            }
+        }
+    }
+    let mut out = Vec::new();
+    walk(dir, dir, &mut out);
+    out.sort();
+    out
+}
+
+/// The files a build writes, without raysheet's own list of them.
+fn outputs(dir: &Path) -> Vec<String> {
+    files_under(dir).into_iter().filter(|f| f != ".raysheet-files").collect()
+}
+
+#[test]
+fn build_writes_sheets_keys_svgs_and_answers() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let out = raysheet(
+        &["build", &fixture("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap()],
+        tmp.path(),
+    );
+    assert_code(&out, 0);
+    // Issue 3, Output: sheets.pdf, keys.pdf, one SVG per sheet and per key, answers.json.
+    assert_eq!(
+        outputs(&out_dir),
+        ["answers.json", "keys.pdf", "sheets.pdf", "svg/key-01.svg", "svg/sheet-01.svg"]
+    );
+    for pdf in ["sheets.pdf", "keys.pdf"] {
+        assert!(std::fs::read(out_dir.join(pdf)).unwrap().starts_with(b"%PDF-"), "{pdf}");
+    }
+    let answers: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(out_dir.join("answers.json")).unwrap()).unwrap();
+    assert_eq!(answers["sheets"].as_array().unwrap().len(), 1);
+    assert!(text(&out.stdout).contains("sheets.pdf"), "{}", text(&out.stdout));
+}
+
+#[test]
+fn format_pdf_writes_no_svg() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let out = raysheet(
+        &["build", &fixture("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap(), "--format", "pdf"],
+        tmp.path(),
+    );
+    assert_code(&out, 0);
+    assert_eq!(outputs(&out_dir), ["answers.json", "keys.pdf", "sheets.pdf"]);
+    assert!(!out_dir.join("svg").exists());
+}
+
+#[test]
+fn demo_builds_without_a_kit_file_and_prints_the_paths() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("demo-here");
+    let out = raysheet(&["demo", "--out", out_dir.to_str().unwrap(), "--format", "pdf"], tmp.path());
+    assert_code(&out, 0);
+    let stdout = text(&out.stdout);
+    for f in ["sheets.pdf", "keys.pdf", "answers.json"] {
+        assert!(out_dir.join(f).is_file(), "{f}");
+        assert!(stdout.contains(&out_dir.join(f).display().to_string()), "{f} not printed:\n{stdout}");
+    }
+}
+
+#[test]
+fn demo_without_out_writes_to_raysheet_demo_in_the_working_folder() {
+    // Issue 3: `raysheet demo [--out DIR]`, default DIR = raysheet-demo.
+    let tmp = tempfile::tempdir().unwrap();
+    let out = raysheet(&["demo", "--format", "pdf"], tmp.path());
+    assert_code(&out, 0);
+    assert!(tmp.path().join("raysheet-demo/sheets.pdf").is_file());
+}
+
+#[test]
+fn building_twice_into_the_same_folder_overwrites_its_own_files() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let args =
+        ["build", &fixture("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap(), "--format", "pdf"];
+    assert_code(&raysheet(&args, tmp.path()), 0);
+    let first = std::fs::read(out_dir.join("sheets.pdf")).unwrap();
+    assert_code(&raysheet(&args, tmp.path()), 0);
+    assert_eq!(
+        std::fs::read(out_dir.join("sheets.pdf")).unwrap(),
+        first,
+        "the same kit gives the same bytes"
+    );
+    assert_eq!(outputs(&out_dir), ["answers.json", "keys.pdf", "sheets.pdf"]);
+}
+
+#[test]
+fn a_users_file_with_an_output_name_is_refused_unless_force() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    std::fs::create_dir(&out_dir).unwrap();
+    let mine = b"%PDF-1.4 a teacher's own worksheet, not raysheet's".to_vec();
+    std::fs::write(out_dir.join("sheets.pdf"), &mine).unwrap();
+    let kit = fixture("sheets_halfdisc.toml");
+    let mut args = vec!["build", &kit, "--out", out_dir.to_str().unwrap()];
+    let out = raysheet(&args, tmp.path());
+    assert_code(&out, 2);
+    let err = text(&out.stderr);
+    assert!(err.contains("sheets.pdf") && err.contains("--force"), "{err}");
+    assert_eq!(std::fs::read(out_dir.join("sheets.pdf")).unwrap(), mine, "the user's file is untouched");
+    assert_eq!(files_under(&out_dir), ["sheets.pdf"], "nothing else was written");
+
+    args.push("--force");
+    assert_code(&raysheet(&args, tmp.path()), 0);
+    let now = std::fs::read(out_dir.join("sheets.pdf")).unwrap();
+    assert_ne!(now, mine, "--force overwrites it");
+    assert!(now.starts_with(b"%PDF-"));
+}
+
+fn assert_input_error(args: &[&str], tmp: &Path, out_dir: &Path, words: &[&str]) {
+    let out = raysheet(args, tmp);
+    assert_code(&out, 2);
+    let err = text(&out.stderr);
+    assert!(err.starts_with("raysheet: error: "), "{err}");
+    for w in words {
+        assert!(err.contains(w), "{w:?} missing from: {err}");
+    }
+    assert!(files_under(out_dir).is_empty(), "nothing written, found {:?}", files_under(out_dir));
+}
+
+#[test]
+fn bad_paper_names_and_margins_are_exit_2_with_nothing_written() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let o = out_dir.to_str().unwrap();
+    let kit = fixture("sheets_halfdisc.toml");
+    // B7 is not among the sizes raysheet knows; the message says which it knows.
+    assert_input_error(
+        &["build", &kit, "--out", o, "--paper", "B7"],
+        tmp.path(),
+        &out_dir,
+        &["B7", "A4", "Letter"],
+    );
+    // An 80 mm margin on A4 leaves 210 − 160 = 50 mm across: less than the
+    // 100 mm printable minimum (MIN_PRINTABLE_MM, src/paper.rs).
+    assert_input_error(
+        &["build", &kit, "--out", o, "--margin", "80"],
+        tmp.path(),
+        &out_dir,
+        &["margin", "80", "50"],
+    );
+    // A bad [paper] in the kit: located at the file, line and field.
+    assert_input_error(
+        &["build", &fixture("sheets_bad_paper.toml"), "--out", o],
+        tmp.path(),
+        &out_dir,
+        &["sheets_bad_paper.toml:22:", "paper.size", "B7"],
+    );
+    assert!(!out_dir.exists(), "the output folder is not even created");
+}
+
+/// A `.part-` name anywhere under `dir` is a half-written file left behind.
+fn part_files(dir: &Path) -> Vec<String> {
+    files_under(dir).into_iter().filter(|f| f.contains(".part-")).collect()
+}
+
+#[test]
+fn an_unwritable_output_folder_is_exit_1_with_no_partial_files() {
+    // The output folder's parent is a regular file, so the folder cannot be
+    // made. (Permission bits would not stop root, who runs CI here.)
+    let tmp = tempfile::tempdir().unwrap();
+    let root = tmp.path().join("work");
+    std::fs::create_dir(&root).unwrap();
+    std::fs::write(root.join("file.txt"), b"notes").unwrap();
+    let target: PathBuf = root.join("file.txt").join("sub");
+    let out =
+        raysheet(&["build", &fixture("sheets_halfdisc.toml"), "--out", target.to_str().unwrap()], tmp.path());
+    assert_code(&out, 1);
+    let err = text(&out.stderr);
+    assert!(
+        err.starts_with("raysheet: error: ") && err.contains("file.txt") && err.contains("cannot"),
+        "{err}"
+    );
+    assert_eq!(files_under(&root), ["file.txt"], "nothing else is left in the folder");
+    assert!(part_files(&root).is_empty());
+    assert_eq!(std::fs::read(root.join("file.txt")).unwrap(), b"notes");
+}
+
+/// Regression for a partial build: a user's regular file named `svg` sits
+/// where the SVG folder goes. This used to write `sheets.pdf`, fail on `svg/`
+/// (exit 1) and leave files the next build refused as the user's. Now every
+/// folder is checked before anything is written: exit 2, a message naming the
+/// file, nothing written, and a PDF-only rebuild succeeds.
+#[test]
+fn a_build_that_fails_midway_does_not_lock_out_the_next_build() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    std::fs::create_dir(&out_dir).unwrap();
+    std::fs::write(out_dir.join("svg"), b"a user's file called svg").unwrap();
+    let o = out_dir.to_str().unwrap();
+    let kit = fixture("sheets_halfdisc.toml");
+    let first = raysheet(&["build", &kit, "--out", o], tmp.path());
+    assert_code(&first, 2);
+    assert!(text(&first.stderr).contains("is not a folder"), "{}", text(&first.stderr));
+    assert!(!out_dir.join("sheets.pdf").exists(), "nothing is written before the check");
+    assert_eq!(std::fs::read(out_dir.join("svg")).unwrap(), b"a user's file called svg");
+    assert!(part_files(&out_dir).is_empty());
+    assert_code(&raysheet(&["build", &kit, "--out", o, "--format", "pdf"], tmp.path()), 0);
+}
+
+#[test]
+fn exit_codes_follow_main_rs() {
+    let tmp = tempfile::tempdir().unwrap();
+    let o = tmp.path().join("out");
+    let o = o.to_str().unwrap();
+    // 0: success (check prints a report).
+    assert_code(&raysheet(&["check", &fixture("sheets_halfdisc.toml")], tmp.path()), 0);
+    // 2: a kit file that does not exist is bad input.
+    let out = raysheet(&["build", "no-such-kit.toml", "--out", o], tmp.path());
+    assert_code(&out, 2);
+    assert!(text(&out.stderr).contains("no-such-kit.toml"), "{}", text(&out.stderr));
+    // 2: usage errors (an unknown flag, a missing --out, a bad --format).
+    assert_code(
+        &raysheet(&["build", &fixture("sheets_halfdisc.toml"), "--out", o, "--colour"], tmp.path()),
+        2,
+    );
+    let out = raysheet(&["build", &fixture("sheets_halfdisc.toml")], tmp.path());
+    assert_code(&out, 2);
+    assert!(text(&out.stderr).contains("--out"), "{}", text(&out.stderr));
+    let out =
+        raysheet(&["build", &fixture("sheets_halfdisc.toml"), "--out", o, "--format", "png"], tmp.path());
+    assert_code(&out, 2);
+    assert!(text(&out.stderr).contains("png"), "{}", text(&out.stderr));
+    // 1: the file system says no (see the unwritable-folder test).
+    assert!(!Path::new(o).exists());
+}
