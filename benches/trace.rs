@@ -53,6 +53,21 @@ fn builds(c: &mut Criterion) {
             black_box(build_plans(&kit, &plans, &kit.paper, both, None).expect("build"))
         })
     });
+    // A 30-sheet set: the demo's four sheets repeated.
+    let mut kit30 = kit.clone();
+    kit30.sheets = (0..30)
+        .map(|i| {
+            let mut s = kit.sheets[i % kit.sheets.len()].clone();
+            s.number = i + 1;
+            s
+        })
+        .collect();
+    g.bench_function("30-sheet set, sheets and keys, pdf+svg", |b| {
+        b.iter(|| {
+            let plans = plan_kit(&kit30, &kit30.paper);
+            black_box(build_plans(&kit30, &plans, &kit30.paper, both, None).expect("build"))
+        })
+    });
     let names: Vec<String> = (1..=30).map(|i| format!("Bench {i}")).collect();
     let folders = folder_names(&names);
     g.bench_function("demo kit, 30-group class set, pdf+svg", |b| {
