@@ -28,6 +28,8 @@ pub enum BuildError {
     Templates(String),
     /// The output would be unreasonably large.
     TooLarge(String),
+    /// The kit asks for no sheets.
+    Empty,
 }
 
 impl std::fmt::Display for BuildError {
@@ -35,6 +37,10 @@ impl std::fmt::Display for BuildError {
         match self {
             BuildError::Render(e) => write!(f, "{e}"),
             BuildError::Templates(e) | BuildError::TooLarge(e) => write!(f, "{e}"),
+            BuildError::Empty => write!(
+                f,
+                "the kit has no [[sheets]], so there is nothing to print; add a [[sheets]] entry (kind = \"curved-face\" or \"focal\", piece = \"…\"), or use `raysheet check` to see its pieces"
+            ),
         }
     }
 }
@@ -66,6 +72,23 @@ fn scene_files(
     Ok(())
 }
 
+/// Refuses, before any layout, a set whose sheets and keys would need more
+/// than [`MAX_PAGES`] pages (a setup tiled over thousands of pages, say).
+fn check_pages<'a>(plans: impl Iterator<Item = &'a SheetPlan>, paper: &PaperSpec) -> Result<(), BuildError> {
+    let mut total: usize = 0;
+    for p in plans {
+        let n = layout::pages_needed(p, paper);
+        total = total.saturating_add(n.saturating_mul(2));
+        if total > MAX_PAGES {
+            return Err(BuildError::TooLarge(format!(
+                "the sheets and keys would need more than {MAX_PAGES} pages (sheet {} alone is tiled over {n} pages); raysheet refuses so large a build: check the piece sizes, or use larger paper",
+                p.number
+            )));
+        }
+    }
+    Ok(())
+}
+
 /// Builds the student sheets, keys and answer file for already-made plans.
 pub fn build_plans(
     kit: &Kit,
@@ -74,8 +97,18 @@ pub fn build_plans(
     formats: Formats,
     seed: Option<u64>,
 ) -> Result<Vec<Output>, BuildError> {
+    if plans.is_empty() {
+        return Err(BuildError::Empty);
+    }
+    check_pages(plans.iter(), paper)?;
     let templates = Templates::shipped().map_err(BuildError::Templates)?;
     let set = layout::layout(&kit.title, plans, paper, &templates);
+    if set.sheets.pages.len() + set.keys.pages.len() > MAX_PAGES {
+        return Err(BuildError::TooLarge(format!(
+            "these sheets would need {} pages, more than the {MAX_PAGES} raysheet makes in one build; split the kit",
+            set.sheets.pages.len() + set.keys.pages.len()
+        )));
+    }
     let mut out = Vec::new();
     scene_files(&set.sheets, "", "sheets.pdf", formats, &mut out)?;
     scene_files(&set.keys, "", "keys.pdf", formats, &mut out)?;
@@ -97,6 +130,10 @@ pub fn build_class(
     paper: &PaperSpec,
     formats: Formats,
 ) -> Result<Vec<Output>, BuildError> {
+    if kit.sheets.is_empty() {
+        return Err(BuildError::Empty);
+    }
+    check_pages(class.plans.iter().flatten(), paper)?;
     let templates = Templates::shipped().map_err(BuildError::Templates)?;
     let mut all_sheets =
         Scene { title: format!("{}: student sheets, all groups", kit.title), pages: Vec::new() };

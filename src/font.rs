@@ -64,11 +64,13 @@ pub fn glyph_id(weight: Weight, ch: char) -> Option<u16> {
     face(weight).glyph_index(ch).map(|g| g.0)
 }
 
-/// Characters of `text` that the shipped font cannot show, in order of first appearance.
+/// Characters of `text` that either shipped face cannot show, in order of
+/// first appearance (names and titles may be set in bold).
 pub fn unsupported_chars(text: &str) -> Vec<char> {
     let mut out = Vec::new();
     for ch in text.chars() {
-        if glyph_id(Weight::Regular, ch).is_none() && !out.contains(&ch) {
+        let missing = glyph_id(Weight::Regular, ch).is_none() || glyph_id(Weight::Bold, ch).is_none();
+        if missing && !out.contains(&ch) {
             out.push(ch);
         }
     }

@@ -272,3 +272,30 @@ fn exit_codes_follow_main_rs() {
     // 1: the file system says no (see the unwritable-folder test).
     assert!(!Path::new(o).exists());
 }
+
+/// A kit with pieces and no sheets is valid for `check`, but `build` has
+/// nothing to print: exit 2, a message saying so, and no folder made.
+#[test]
+fn build_of_a_kit_without_sheets_is_refused_and_writes_nothing() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let out =
+        raysheet(&["build", &fixture("pieces_only.toml"), "--out", out_dir.to_str().unwrap()], tmp.path());
+    assert_code(&out, 2);
+    assert!(text(&out.stderr).contains("no [[sheets]]"), "{}", text(&out.stderr));
+    assert!(!out_dir.exists());
+}
+
+/// Runaway output is refused before any layout: a curved face of 1000 km
+/// radius crosses the axis about 2000 km away (R n/(n − 1), DESIGN.md), which
+/// would tile over millions of pages. Exit 2, the limit named, nothing written.
+#[test]
+fn a_setup_that_would_tile_over_millions_of_pages_is_refused() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let out =
+        raysheet(&["build", &fixture("sheets_runaway.toml"), "--out", out_dir.to_str().unwrap()], tmp.path());
+    assert_code(&out, 2);
+    assert!(text(&out.stderr).contains("2000 pages"), "{}", text(&out.stderr));
+    assert!(!out_dir.exists());
+}

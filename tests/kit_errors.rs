@@ -830,3 +830,26 @@ proptest! {
         run_all(&format!("{}{}{}", &text[..a], value, &text[b..]));
     }
 }
+
+// ------------------------------------------------------------ printable text
+
+#[test]
+fn title_or_label_the_font_cannot_print_is_located() {
+    // U+6F22 is a CJK ideograph: DejaVu Sans has no glyph for it (its cmap,
+    // read with ttf-parser in src/font.rs tests).
+    let text = edit(BASE, "title = \"Bench kit, Hollins Road annexe\"", "title = \"Bench kit 漢\"");
+    let (line, col) = at(&text, "\"Bench kit 漢\"");
+    let shown = check(&error(&text), Expect { line, col: Some(col), field: "title", hint: &["Latin"] });
+    assert!(shown.contains("U+6F22"), "{shown}");
+    let text = edit(BASE, "id = \"hd33\"", "id = \"hd33\"\nlabel = \"half-disc\\nsecond line\"");
+    let e = error(&text);
+    assert_eq!(e.field, "pieces[1].label", "{e}");
+    assert!(e.message.contains("control character"), "{e}");
+}
+
+#[test]
+fn accented_and_greek_labels_are_accepted() {
+    let text =
+        edit(BASE, "id = \"hd33\"", "id = \"hd33\"\nlabel = \"Halbscheibe, Ø 66 mm, n≈1.50 (θ < 42°)\"");
+    assert!(Kit::from_toml(&text, FILE).is_ok());
+}

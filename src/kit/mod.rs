@@ -255,6 +255,38 @@ impl Validator<'_> {
         self.loc.line_col(span.start).0
     }
 
+    /// Text printed on the sheets must be one line the shipped font can show.
+    fn printable(&self, v: &Spanned<String>, field: String) -> Result<(), KitError> {
+        let text = v.get_ref();
+        if text.chars().any(char::is_control) {
+            return self.err(
+                v.span(),
+                field,
+                "the text contains a control character (a newline or tab)".into(),
+                "keep it on one line",
+            );
+        }
+        if text.chars().count() > 120 {
+            return self.err(
+                v.span(),
+                field,
+                format!("the text is {} characters long", text.chars().count()),
+                "keep it under 120 characters so it fits the sheet's header",
+            );
+        }
+        let missing = crate::font::unsupported_chars(text);
+        if !missing.is_empty() {
+            let list: Vec<String> = missing.iter().map(|c| format!("'{c}' (U+{:04X})", *c as u32)).collect();
+            return self.err(
+                v.span(),
+                field,
+                format!("the shipped font (DejaVu Sans) cannot print {}", list.join(", ")),
+                "use Latin, Greek or Cyrillic letters, digits and common symbols",
+            );
+        }
+        Ok(())
+    }
+
     fn positive(&self, v: &Spanned<f64>, field: String, what: &str) -> Result<f64, KitError> {
         let x = *v.get_ref();
         if x.is_finite() && x > 0.0 {
@@ -270,6 +302,9 @@ impl Validator<'_> {
     }
 
     fn kit(&self, raw: RawKit) -> Result<Kit, KitError> {
+        if let Some(t) = &raw.title {
+            self.printable(t, "title".into())?;
+        }
         let title = raw.title.map(|t| t.into_inner()).unwrap_or_else(|| "Ray-optics practical".to_string());
         let mut materials = BTreeMap::new();
         for (name, m) in &raw.materials {
@@ -482,7 +517,13 @@ impl Validator<'_> {
         })?;
         Ok(KitPiece {
             id,
-            label: p.label.as_ref().map(|l| l.get_ref().clone()),
+            label: match &p.label {
+                Some(l) => {
+                    self.printable(l, f("label"))?;
+                    Some(l.get_ref().clone())
+                }
+                None => None,
+            },
             material,
             piece,
             line: self.line(&sp.span()),

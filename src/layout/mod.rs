@@ -105,7 +105,8 @@ fn tiles_needed(length: f64, window: f64) -> usize {
     if length <= window + 1e-9 {
         1
     } else {
-        ((length - TILE_OVERLAP_MM) / (window - TILE_OVERLAP_MM)).ceil() as usize
+        // Saturates for absurd lengths (the build refuses those before layout).
+        ((length - TILE_OVERLAP_MM) / (window - TILE_OVERLAP_MM)).ceil().min(1e9) as usize
     }
 }
 
@@ -113,6 +114,14 @@ fn tiles_needed(length: f64, window: f64) -> usize {
 /// given size, with [`TILE_OVERLAP_MM`] overlap: n = ⌈(L − o)/(W − o)⌉ when L > W.
 pub fn tiling_for(length: f64, height: f64, window: &Rect) -> Tiling {
     Tiling { columns: tiles_needed(length, window.width()), rows: tiles_needed(height, window.height()) }
+}
+
+/// How many pages one plan's student sheet takes (the key takes as many).
+pub fn pages_needed(p: &SheetPlan, paper: &PaperSpec) -> usize {
+    let rg = regions(paper);
+    let s = p.setup;
+    let t = tiling_for(s.x_max - s.x_min, 2.0 * s.y_half, &rg.drawing);
+    t.columns.saturating_mul(t.rows)
 }
 
 /// The student sheets and answer keys for a set of plans.
