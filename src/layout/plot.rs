@@ -72,7 +72,7 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
         items.push(text(
             Point::new(p.x, p.y - 3.6),
             &format!("{v:.0}"),
-            6.0,
+            6.5,
             Weight::Regular,
             Anchor::Middle,
         ));
@@ -85,7 +85,7 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
         items.push(text(
             Point::new(p.x - 1.5, p.y - 0.8),
             &format!("{v:.0}"),
-            6.0,
+            6.5,
             Weight::Regular,
             Anchor::End,
         ));
@@ -100,7 +100,7 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
         let at = map(x1, p);
         let below = p > (y0 + y1) / 2.0;
         let dy = if below { -2.8 } else { 1.0 };
-        items.push(text(Point::new(at.x - 1.0, at.y + dy), "paraxial", 6.0, Weight::Regular, Anchor::End));
+        items.push(text(Point::new(at.x - 1.0, at.y + dy), "paraxial", 6.5, Weight::Regular, Anchor::End));
     }
     items.push(Item::Polyline {
         points: pts.iter().map(|&(h, d)| map(h, d)).collect(),
@@ -130,14 +130,14 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
     items.push(text(
         Point::new((inner.min.x + inner.max.x) / 2.0, area.min.y + 1.0),
         "guide height, mm from the axis",
-        6.0,
+        6.5,
         Weight::Regular,
         Anchor::Middle,
     ));
     items.push(Item::Text {
         at: Point::new(area.min.x + 1.8, (inner.min.y + inner.max.y) / 2.0),
         text: format!("mm {ref_words}"),
-        size_pt: 6.0,
+        size_pt: 6.5,
         weight: Weight::Regular,
         anchor: Anchor::Middle,
         rotate_deg: 90.0,

@@ -154,7 +154,7 @@ fn reason(limit: Limit, h: f64, lower: bool, outline: &Outline, rules: &BandRule
             format!("{side} {h} the ray lies within one ray width ({} mm) of the axis", rules.ray_width_mm)
         }
         Limit::Shallow => format!(
-            "{side} {h} the ray meets the axis so shallowly that ±{:.1} mm across the ray becomes more than {:.0} % of the distance along the axis",
+            "{side} {h} the ray crosses the axis so shallowly that a {:.1} mm slip across the ray moves the crossing by more than {:.0} % of its distance",
             rules.across_error_mm(),
             rules.max_relative_uncertainty * 100.0
         ),
