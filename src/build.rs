@@ -89,7 +89,8 @@ fn check_pages<'a>(plans: impl Iterator<Item = &'a SheetPlan>, paper: &PaperSpec
     Ok(())
 }
 
-/// Builds the student sheets, keys and answer file for already-made plans.
+/// Builds the student sheets, keys and answer file for already-made plans,
+/// with the shipped templates.
 pub fn build_plans(
     kit: &Kit,
     plans: &[SheetPlan],
@@ -97,12 +98,24 @@ pub fn build_plans(
     formats: Formats,
     seed: Option<u64>,
 ) -> Result<Vec<Output>, BuildError> {
+    let templates = Templates::shipped().map_err(BuildError::Templates)?;
+    build_plans_with(kit, plans, paper, formats, seed, &templates)
+}
+
+/// [`build_plans`] with the given sheet text.
+pub fn build_plans_with(
+    kit: &Kit,
+    plans: &[SheetPlan],
+    paper: &PaperSpec,
+    formats: Formats,
+    seed: Option<u64>,
+    templates: &Templates,
+) -> Result<Vec<Output>, BuildError> {
     if plans.is_empty() {
         return Err(BuildError::Empty);
     }
     check_pages(plans.iter(), paper)?;
-    let templates = Templates::shipped().map_err(BuildError::Templates)?;
-    let set = layout::layout(&kit.title, plans, paper, &templates);
+    let set = layout::layout(&kit.title, plans, paper, templates);
     if set.sheets.pages.len() + set.keys.pages.len() > MAX_PAGES {
         return Err(BuildError::TooLarge(format!(
             "these sheets would need {} pages, more than the {MAX_PAGES} raysheet makes in one build; split the kit",
@@ -130,17 +143,28 @@ pub fn build_class(
     paper: &PaperSpec,
     formats: Formats,
 ) -> Result<Vec<Output>, BuildError> {
+    let templates = Templates::shipped().map_err(BuildError::Templates)?;
+    build_class_with(kit, class, paper, formats, &templates)
+}
+
+/// [`build_class`] with the given sheet text.
+pub fn build_class_with(
+    kit: &Kit,
+    class: &ClassPlan,
+    paper: &PaperSpec,
+    formats: Formats,
+    templates: &Templates,
+) -> Result<Vec<Output>, BuildError> {
     if kit.sheets.is_empty() {
         return Err(BuildError::Empty);
     }
     check_pages(class.plans.iter().flatten(), paper)?;
-    let templates = Templates::shipped().map_err(BuildError::Templates)?;
     let mut all_sheets =
         Scene { title: format!("{}: student sheets, all groups", kit.title), pages: Vec::new() };
     let mut all_keys = Scene { title: format!("{}: answer keys, all groups", kit.title), pages: Vec::new() };
     let mut out = Vec::new();
     for (group, plans) in class.groups.iter().zip(&class.plans) {
-        let set = layout::layout(&kit.title, plans, paper, &templates);
+        let set = layout::layout(&kit.title, plans, paper, templates);
         let prefix = format!("groups/{}/", group.folder);
         let sheets = Scene {
             title: format!("{}: {}: student sheets", kit.title, group.name),

@@ -48,6 +48,15 @@ pub enum Command {
         #[command(flatten)]
         class: ClassArgs,
     },
+    /// Write the shipped sheet text (instructions, table headings, caution) into a folder to edit.
+    Templates {
+        /// The folder to write them into.
+        #[arg(long)]
+        out: PathBuf,
+        /// Overwrite files there that raysheet did not write.
+        #[arg(long)]
+        force: bool,
+    },
     /// Build the embedded demo kit (no kit file needed).
     Demo {
         #[command(flatten)]
@@ -72,6 +81,10 @@ pub struct OutArgs {
     /// Overwrite files in the output folder that raysheet did not write.
     #[arg(long)]
     pub force: bool,
+    /// Folder with your own sheet text (any of curved-face.toml, focal.toml,
+    /// focal-diverging.toml, common.toml; `raysheet templates --out DIR` writes the shipped ones).
+    #[arg(long, value_name = "DIR")]
+    pub templates: Option<PathBuf>,
 }
 
 /// Paper options; each overrides the kit's [paper] table.

@@ -10,7 +10,9 @@ mod write;
 use clap::Parser;
 use raysheet::cli::{ClassArgs, Cli, Command, OutArgs, PaperArgs, UsageError, parse_formats, resolve_paper};
 use raysheet::kit::{Groups, Kit};
+use raysheet::layout::{TEMPLATE_FILES, Templates, shipped_template};
 use raysheet::{answers, demo, plan, report};
+use std::collections::BTreeMap;
 
 /// What went wrong, and which exit code it earns.
 enum Failure {
@@ -79,6 +81,32 @@ fn class_plan(
     Ok(Some(plan::plan_class(kit, paper, groups, seed)))
 }
 
+/// The sheet text: shipped, with any files found in `--templates DIR` instead.
+fn templates(out: &OutArgs) -> Result<Templates, Failure> {
+    let Some(dir) = &out.templates else {
+        return Templates::shipped().map_err(Failure::Other);
+    };
+    let mut found = BTreeMap::new();
+    for name in TEMPLATE_FILES {
+        let path = dir.join(name);
+        if path.exists() {
+            let shown = path.display().to_string();
+            let text = std::fs::read_to_string(&path)
+                .map_err(|e| Failure::Input(format!("{shown}: cannot read the template: {e}")))?;
+            found.insert(name.to_string(), (shown, text));
+        }
+    }
+    if found.is_empty() {
+        return Err(Failure::Input(format!(
+            "{}: holds none of the template files ({}); `raysheet templates --out {}` writes them for editing",
+            dir.display(),
+            TEMPLATE_FILES.join(", "),
+            dir.display()
+        )));
+    }
+    Templates::with_overrides(&found).map_err(Failure::Input)
+}
+
 /// Default seed when neither the kit nor the command line gives one.
 const DEFAULT_SEED: u64 = 1;
 
@@ -112,6 +140,7 @@ fn build(
 ) -> Result<(), Failure> {
     let formats = parse_formats(&out.format)?;
     let paper = resolve_paper(&kit.paper, paper_args)?;
+    let text = templates(out)?;
     let (files, warnings) = match class_plan(kit, &paper, class)? {
         None => {
             let plans = plan::plan_kit(kit, &paper);
@@ -119,7 +148,7 @@ fn build(
                 .iter()
                 .flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number)))
                 .collect();
-            (raysheet::build::build_plans(kit, &plans, &paper, formats, class.seed), warnings)
+            (raysheet::build::build_plans_with(kit, &plans, &paper, formats, class.seed, &text), warnings)
         }
         Some(cp) => {
             let mut warnings = cp.notes.clone();
@@ -130,7 +159,7 @@ fn build(
                         .flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))),
                 );
             }
-            (raysheet::build::build_class(kit, &cp, &paper, formats), warnings)
+            (raysheet::build::build_class_with(kit, &cp, &paper, formats, &text), warnings)
         }
     };
     let files = files.map_err(|e| Failure::Input(e.to_string()))?;
@@ -178,6 +207,25 @@ fn run(cli: Cli) -> Result<(), Failure> {
                 Failure::Input("build needs --out DIR: the folder to write the sheets into".into())
             })?;
             build(&kit, &dir, &out, &paper, &class)
+        }
+        Command::Templates { out, force } => {
+            let files: Vec<raysheet::build::Output> = TEMPLATE_FILES
+                .iter()
+                .map(|n| raysheet::build::Output {
+                    path: n.to_string(),
+                    bytes: shipped_template(n).unwrap_or_default().as_bytes().to_vec(),
+                })
+                .collect();
+            let written = write::write_all(&out, &files, force).map_err(|e| match e {
+                write::WriteError::Refused(msg) => Failure::Input(msg),
+                write::WriteError::Io(msg) => Failure::Other(msg),
+            })?;
+            println!("Wrote {} template files to {}:", written.len(), out.display());
+            for w in &written {
+                println!("  {}", w.display());
+            }
+            println!("Edit them, then build with --templates {}", out.display());
+            Ok(())
         }
         Command::Demo { out, print_kit, class } => {
             if print_kit {

@@ -12,7 +12,7 @@ mod text;
 
 pub use drawing::{ray_letter, rays_top_down, signed};
 pub use summary::summary_scene;
-pub use templates::Templates;
+pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_template};
 pub use text::{text_box, wrap};
 
 use crate::geom::{Point, Vec2};
@@ -389,7 +389,13 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
     let mut out = Vec::new();
     let mut y = r.max.y - 3.0;
     let (lines, size): (Vec<String>, f64) = match role {
-        Role::Student => (st.instructions.iter().map(|l| fill(l, p)).collect(), BODY_PT),
+        Role::Student => (
+            st.instructions
+                .iter()
+                .flat_map(|l| wrap(&fill(l, p), BODY_PT, Weight::Regular, r.width()))
+                .collect(),
+            BODY_PT,
+        ),
         Role::Key => {
             (key_values(p).iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(), 6.8)
         }

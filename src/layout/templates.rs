@@ -46,24 +46,139 @@ const FOCAL: &str = include_str!("../../templates/focal.toml");
 const DIVERGING: &str = include_str!("../../templates/focal-diverging.toml");
 const COMMON: &str = include_str!("../../templates/common.toml");
 
+/// The template files, as named in `templates/`.
+pub const FILES: &[&str] = &["curved-face.toml", "focal.toml", "focal-diverging.toml", "common.toml"];
+
+/// The shipped text of a template file (`None` for an unknown name).
+pub fn shipped_text(name: &str) -> Option<&'static str> {
+    match name {
+        "curved-face.toml" => Some(CURVED),
+        "focal.toml" => Some(FOCAL),
+        "focal-diverging.toml" => Some(DIVERGING),
+        "common.toml" => Some(COMMON),
+        _ => None,
+    }
+}
+
+/// Most instruction lines a sheet has room for.
+pub const MAX_INSTRUCTIONS: usize = 7;
+
+fn parse<T: for<'de> Deserialize<'de>>(text: &str, shown: &str) -> Result<T, String> {
+    toml::from_str(text).map_err(|e| format!("{shown}: {}", e.to_string().trim_end()))
+}
+
+fn printable(text: &str, shown: &str, field: &str) -> Result<(), String> {
+    let missing = crate::font::unsupported_chars(text);
+    if let Some(c) = missing.first() {
+        return Err(format!(
+            "{shown}: field `{field}`: the shipped font (DejaVu Sans) cannot print '{c}' (U+{:04X}); use Latin, Greek or Cyrillic letters, digits and common symbols",
+            *c as u32
+        ));
+    }
+    if text.chars().any(char::is_control) {
+        return Err(format!(
+            "{shown}: field `{field}`: contains a control character; give one line per list entry"
+        ));
+    }
+    Ok(())
+}
+
+fn check_sheet(t: &SheetText, shown: &str) -> Result<(), String> {
+    printable(&t.heading, shown, "heading")?;
+    if t.instructions.len() > MAX_INSTRUCTIONS {
+        return Err(format!(
+            "{shown}: field `instructions`: {} lines is more than the {MAX_INSTRUCTIONS} a sheet has room for",
+            t.instructions.len()
+        ));
+    }
+    for (i, l) in t.instructions.iter().enumerate() {
+        printable(l, shown, &format!("instructions[{}]", i + 1))?;
+    }
+    if t.columns.len() != 4 {
+        return Err(format!(
+            "{shown}: field `columns`: the measurement table has 4 columns (ray, height, crossing, check); {} were given",
+            t.columns.len()
+        ));
+    }
+    for (i, c) in t.columns.iter().enumerate() {
+        printable(c, shown, &format!("columns[{}]", i + 1))?;
+    }
+    Ok(())
+}
+
 impl Templates {
     /// The templates shipped in `templates/`. An error names the template file;
     /// the `shipped_templates_parse` test keeps them valid.
     pub fn shipped() -> Result<Templates, String> {
-        fn parse<T: for<'de> Deserialize<'de>>(text: &str, name: &str) -> Result<T, String> {
-            toml::from_str(text).map_err(|e| format!("templates/{name}: {e}"))
+        Templates::with_overrides(&std::collections::BTreeMap::new())
+    }
+
+    /// The shipped templates with some files replaced: `overrides` maps a file
+    /// name from [`FILES`] to (the path to show in messages, its text). Each
+    /// file is checked: TOML syntax and fields (located), printable text, at
+    /// most [`MAX_INSTRUCTIONS`] instruction lines, four table columns.
+    pub fn with_overrides(
+        overrides: &std::collections::BTreeMap<String, (String, String)>,
+    ) -> Result<Templates, String> {
+        let get = |name: &str| -> (String, String) {
+            match overrides.get(name) {
+                Some((shown, text)) => (shown.clone(), text.clone()),
+                None => (format!("templates/{name}"), shipped_text(name).unwrap_or_default().to_string()),
+            }
+        };
+        let sheet = |name: &str| -> Result<SheetText, String> {
+            let (shown, text) = get(name);
+            let t: SheetText = parse(&text, &shown)?;
+            check_sheet(&t, &shown)?;
+            Ok(t)
+        };
+        let (shown, text) = get("common.toml");
+        let common: CommonText = parse(&text, &shown)?;
+        for (field, v) in [
+            ("safety", &common.safety),
+            ("scale_check", &common.scale_check),
+            ("scale_check_vertical", &common.scale_check_vertical),
+            ("scale_hint", &common.scale_hint),
+        ] {
+            printable(v, &shown, field)?;
         }
         Ok(Templates {
-            curved_face: parse(CURVED, "curved-face.toml")?,
-            focal: parse(FOCAL, "focal.toml")?,
-            focal_diverging: parse(DIVERGING, "focal-diverging.toml")?,
-            common: parse(COMMON, "common.toml")?,
+            curved_face: sheet("curved-face.toml")?,
+            focal: sheet("focal.toml")?,
+            focal_diverging: sheet("focal-diverging.toml")?,
+            common,
         })
     }
 }
 
 #[cfg(test)]
 mod tests {
+    use std::collections::BTreeMap;
+
+    fn one(name: &str, text: &str) -> BTreeMap<String, (String, String)> {
+        BTreeMap::from([(name.to_string(), (format!("mine/{name}"), text.to_string()))])
+    }
+
+    #[test]
+    fn overrides_replace_one_file_and_are_checked() {
+        let mine = "heading = \"Brechung\"\ninstructions = [\"1. Prüfen\"]\ncolumns = [\"a\", \"b\", \"c\", \"d\"]\n";
+        let t = super::Templates::with_overrides(&one("curved-face.toml", mine)).unwrap();
+        assert_eq!(t.curved_face.heading, "Brechung");
+        assert_eq!(t.focal.columns.len(), 4);
+        let bad = super::Templates::with_overrides(&one(
+            "focal.toml",
+            "heading = \"x\"\ninstructions = []\ncolumns = [\"a\"]\n",
+        ));
+        assert!(bad.unwrap_err().contains("mine/focal.toml: field `columns`"));
+        let syntax = super::Templates::with_overrides(&one("common.toml", "safety = \n")).unwrap_err();
+        assert!(syntax.starts_with("mine/common.toml:") && syntax.contains("line 1"), "{syntax}");
+        let glyph = super::Templates::with_overrides(&one(
+            "focal.toml",
+            "heading = \"漢\"\ninstructions = []\ncolumns = [\"a\",\"b\",\"c\",\"d\"]\n",
+        ));
+        assert!(glyph.unwrap_err().contains("U+6F22"));
+    }
+
     #[test]
     fn shipped_templates_parse() {
         let t = super::Templates::shipped().unwrap();
