@@ -23,19 +23,20 @@ pub fn text_box(at: Point, s: &str, size_pt: f64, weight: Weight, anchor: Anchor
 }
 
 /// Splits `s` into lines no wider than `width_mm` at `size_pt`, at spaces.
+/// Leading spaces (an indent in a template) are kept on every line.
 pub fn wrap(s: &str, size_pt: f64, weight: Weight, width_mm: f64) -> Vec<String> {
+    let indent: String = s.chars().take_while(|c| *c == ' ').collect();
     let mut lines = Vec::new();
-    let mut line = String::new();
+    let mut line = indent.clone();
     for word in s.split_whitespace() {
-        let trial = if line.is_empty() { word.to_string() } else { format!("{line} {word}") };
-        if !line.is_empty() && text_width_mm(&trial, size_pt, weight) > width_mm {
-            lines.push(std::mem::take(&mut line));
-            line = word.to_string();
+        let trial = if line.trim().is_empty() { format!("{line}{word}") } else { format!("{line} {word}") };
+        if !line.trim().is_empty() && text_width_mm(&trial, size_pt, weight) > width_mm {
+            lines.push(std::mem::replace(&mut line, format!("{indent}{word}")));
         } else {
             line = trial;
         }
     }
-    if !line.is_empty() {
+    if !line.trim().is_empty() {
         lines.push(line);
     }
     lines
