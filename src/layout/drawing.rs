@@ -67,12 +67,6 @@ pub struct Drawing {
     pub placer: Placer,
 }
 
-/// Where labels may go, in the sheet frame: the setup with room around it.
-fn label_bounds(plan: &SheetPlan) -> Rect {
-    let s = plan.setup;
-    Rect::from_corners(Point::new(s.x_min, -s.y_half), Point::new(s.x_max + 10.0, s.y_half))
-}
-
 fn line(from: Point, to: Point, stroke: Stroke) -> Item {
     Item::Line { from, to, stroke }
 }
@@ -87,12 +81,26 @@ fn place_label(d: &mut Drawing, bounds: &Rect, s: &str, size: f64, candidates: &
 
 /// The student sheet's drawing: axis, outline, flat-face or centre line, ray
 /// box position and guide lines with arrowheads.
-pub fn student(plan: &SheetPlan) -> Drawing {
+///
+/// `bounds` is where labels may go, in the sheet frame: the visible window.
+pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     let o = &plan.outline;
     let s = plan.setup;
     let a = o.a();
     let mut d = Drawing { items: Vec::new(), placer: Placer::default() };
-    let bounds = label_bounds(plan);
+    // Keep the student's labels off where the key will draw traced rays and
+    // crossing marks, so both carry the same labels at the same places.
+    for r in &plan.rays {
+        let tr = &r.trace;
+        d.placer.block_path(&tr.path[1.min(tr.path.len())..]);
+        if let (Some(x), Some((p, _))) = (r.crossing_from_entry_mm, tr.exit) {
+            d.placer.block_line(p, Point::new(x, 0.0));
+            d.placer.block(Rect::from_corners(Point::new(x - 2.0, -2.0), Point::new(x + 2.0, 2.0)));
+        }
+    }
+    if let Some(f) = plan.paraxial.rear_focus_x() {
+        d.placer.block(Rect::from_corners(Point::new(f - 2.0, -2.0), Point::new(f + 2.0, 2.0)));
+    }
     // Optical axis.
     let axis_a = Point::new(s.x_min + 2.0, 0.0);
     let axis_b = Point::new(s.x_max - 1.0, 0.0);
@@ -199,11 +207,10 @@ pub fn signed(h: f64) -> String {
 /// What the key adds on top of the student drawing: traced rays, crossing
 /// marks with values, the paraxial focus, the rear principal plane and, for
 /// diverging pieces, the backward extensions, trace-back points and virtual focus.
-pub fn key_extras(plan: &SheetPlan, base: &mut Drawing) -> Vec<Item> {
+pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Item> {
     let mut items = Vec::new();
     let s = plan.setup;
     let o = &plan.outline;
-    let bounds = label_bounds(plan);
     let ray_stroke = Stroke::solid(RAY_W).gray(0.25);
     let order = rays_top_down(plan);
     let mut marks: Vec<(f64, Vec<String>, bool)> = Vec::new();
@@ -299,7 +306,12 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing) -> Vec<Item> {
         }
         cands.extend((0..8).flat_map(|k| {
             let dy = 3.2 + 3.4 * f64::from(k);
-            [(Point::new(*x, -dy - 1.5), Anchor::Middle), (Point::new(*x, dy), Anchor::Middle)]
+            [
+                (Point::new(*x, -dy - 1.5), Anchor::Middle),
+                (Point::new(*x, dy), Anchor::Middle),
+                (Point::new(*x + 2.0, -dy - 1.5), Anchor::End),
+                (Point::new(*x - 2.0, -dy - 1.5), Anchor::Start),
+            ]
         }));
         let mut d2 = Drawing { items: Vec::new(), placer: std::mem::take(&mut base.placer) };
         place_label(&mut d2, &bounds, &value, 6.5, &cands);
@@ -318,7 +330,12 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing) -> Vec<Item> {
         let cands: Vec<(Point, Anchor)> = (0..8)
             .flat_map(|k| {
                 let dy = 3.4 + 3.4 * f64::from(k);
-                [(Point::new(f, dy), Anchor::Middle), (Point::new(f, -dy - 1.5), Anchor::Middle)]
+                [
+                    (Point::new(f, dy), Anchor::Middle),
+                    (Point::new(f, -dy - 1.5), Anchor::Middle),
+                    (Point::new(f + 2.0, dy), Anchor::End),
+                    (Point::new(f - 2.0, dy), Anchor::Start),
+                ]
             })
             .collect();
         let mut d2 = Drawing { items: Vec::new(), placer: std::mem::take(&mut base.placer) };

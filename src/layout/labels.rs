@@ -63,16 +63,17 @@ impl Placer {
             && !self.segments.iter().any(|(a, b)| segment_hits_rect(*a, *b, &g))
     }
 
-    /// The first candidate (index) whose box is free (0.3 mm clear) and inside `bounds`;
-    /// failing that, the first free one anywhere, then the first inside
-    /// `bounds`, or 0. The chosen box is then taken.
+    /// The first candidate (index) whose box is free (0.3 mm clear) and inside
+    /// `bounds`; failing that, the first inside `bounds` (a label that touches
+    /// a line is better than one cut off by the page), then the first free
+    /// one, or 0. The chosen box is then taken.
     pub fn choose(&mut self, candidates: &[Rect], bounds: &Rect) -> usize {
         let inside = |r: &Rect| bounds.contains(r.min) && bounds.contains(r.max);
         let pick = candidates
             .iter()
             .position(|r| inside(r) && self.is_free(r, 0.3))
-            .or_else(|| candidates.iter().position(|r| self.is_free(r, 0.0)))
             .or_else(|| candidates.iter().position(inside))
+            .or_else(|| candidates.iter().position(|r| self.is_free(r, 0.0)))
             .unwrap_or(0);
         if let Some(r) = candidates.get(pick) {
             self.block(*r);

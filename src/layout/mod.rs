@@ -164,12 +164,24 @@ pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Template
     let length = s.x_max - s.x_min;
     let height = 2.0 * s.y_half;
     let tiling = tiling_for(length, height, &rg.drawing);
-    let mut d: Drawing = student(p);
+    let win = rg.drawing;
+    // Where labels may go, in the sheet frame: the window around the centred
+    // setup on a single page; the setup itself when tiled.
+    let bounds = if tiling.pages() == 1 {
+        let spare_x = (win.width() - length) / 2.0;
+        let spare_y = win.height() / 2.0;
+        Rect {
+            min: Point::new(s.x_min - spare_x + 1.0, -spare_y + 1.0),
+            max: Point::new(s.x_max + spare_x - 1.0, spare_y - 1.0),
+        }
+    } else {
+        Rect { min: Point::new(s.x_min, -s.y_half), max: Point::new(s.x_max, s.y_half) }
+    };
+    let mut d: Drawing = student(p, bounds);
     let mut items = std::mem::take(&mut d.items);
     if role == Role::Key {
-        items.extend(key_extras(p, &mut d));
+        items.extend(key_extras(p, &mut d, bounds));
     }
-    let win = rg.drawing;
     let mut pages = Vec::new();
     for row in 0..tiling.rows {
         for col in 0..tiling.columns {
