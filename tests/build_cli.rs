@@ -4,34 +4,11 @@
 //! nothing half-written.
 
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
 
-fn raysheet(args: &[&str], cwd: &Path) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_raysheet"))
-        .args(args)
-        .current_dir(cwd)
-        .output()
-        .expect("the binary runs")
+mod common {
+    pub mod cli;
 }
-
-fn fixture(name: &str) -> String {
-    format!("{}/tests/fixtures/{name}", env!("CARGO_MANIFEST_DIR"))
-}
-
-fn text(b: &[u8]) -> String {
-    String::from_utf8_lossy(b).into_owned()
-}
-
-/// Exit code, with both streams in the message when it is not `want`.
-fn assert_code(out: &Output, want: i32) {
-    assert_eq!(
-        out.status.code(),
-        Some(want),
-        "exit code\n--- stdout\n{}\n--- stderr\n{}",
-        text(&out.stdout),
-        text(&out.stderr)
-    );
-}
+use common::cli::{assert_code, fixture_path, raysheet, text};
 
 /// Every file under `dir`, relative, sorted (empty when `dir` does not exist).
 fn files_under(dir: &Path) -> Vec<String> {
@@ -62,7 +39,7 @@ fn build_writes_sheets_keys_svgs_and_answers() {
     let tmp = tempfile::tempdir().unwrap();
     let out_dir = tmp.path().join("out");
     let out = raysheet(
-        &["build", &fixture("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap()],
+        &["build", &fixture_path("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap()],
         tmp.path(),
     );
     assert_code(&out, 0);
@@ -85,7 +62,14 @@ fn format_pdf_writes_no_svg() {
     let tmp = tempfile::tempdir().unwrap();
     let out_dir = tmp.path().join("out");
     let out = raysheet(
-        &["build", &fixture("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap(), "--format", "pdf"],
+        &[
+            "build",
+            &fixture_path("sheets_halfdisc.toml"),
+            "--out",
+            out_dir.to_str().unwrap(),
+            "--format",
+            "pdf",
+        ],
         tmp.path(),
     );
     assert_code(&out, 0);
@@ -119,8 +103,14 @@ fn demo_without_out_writes_to_raysheet_demo_in_the_working_folder() {
 fn building_twice_into_the_same_folder_overwrites_its_own_files() {
     let tmp = tempfile::tempdir().unwrap();
     let out_dir = tmp.path().join("out");
-    let args =
-        ["build", &fixture("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap(), "--format", "pdf"];
+    let args = [
+        "build",
+        &fixture_path("sheets_halfdisc.toml"),
+        "--out",
+        out_dir.to_str().unwrap(),
+        "--format",
+        "pdf",
+    ];
     assert_code(&raysheet(&args, tmp.path()), 0);
     let first = std::fs::read(out_dir.join("sheets.pdf")).unwrap();
     assert_code(&raysheet(&args, tmp.path()), 0);
@@ -139,7 +129,7 @@ fn a_users_file_with_an_output_name_is_refused_unless_force() {
     std::fs::create_dir(&out_dir).unwrap();
     let mine = b"%PDF-1.4 a teacher's own worksheet, not raysheet's".to_vec();
     std::fs::write(out_dir.join("sheets.pdf"), &mine).unwrap();
-    let kit = fixture("sheets_halfdisc.toml");
+    let kit = fixture_path("sheets_halfdisc.toml");
     let mut args = vec!["build", &kit, "--out", out_dir.to_str().unwrap()];
     let out = raysheet(&args, tmp.path());
     assert_code(&out, 2);
@@ -171,7 +161,7 @@ fn bad_paper_names_and_margins_are_exit_2_with_nothing_written() {
     let tmp = tempfile::tempdir().unwrap();
     let out_dir = tmp.path().join("out");
     let o = out_dir.to_str().unwrap();
-    let kit = fixture("sheets_halfdisc.toml");
+    let kit = fixture_path("sheets_halfdisc.toml");
     // B7 is not among the sizes raysheet knows; the message says which it knows.
     assert_input_error(
         &["build", &kit, "--out", o, "--paper", "B7"],
@@ -189,7 +179,7 @@ fn bad_paper_names_and_margins_are_exit_2_with_nothing_written() {
     );
     // A bad [paper] in the kit: located at the file, line and field.
     assert_input_error(
-        &["build", &fixture("sheets_bad_paper.toml"), "--out", o],
+        &["build", &fixture_path("sheets_bad_paper.toml"), "--out", o],
         tmp.path(),
         &out_dir,
         &["sheets_bad_paper.toml:22:", "paper.size", "B7"],
@@ -211,8 +201,10 @@ fn an_unwritable_output_folder_is_exit_1_with_no_partial_files() {
     std::fs::create_dir(&root).unwrap();
     std::fs::write(root.join("file.txt"), b"notes").unwrap();
     let target: PathBuf = root.join("file.txt").join("sub");
-    let out =
-        raysheet(&["build", &fixture("sheets_halfdisc.toml"), "--out", target.to_str().unwrap()], tmp.path());
+    let out = raysheet(
+        &["build", &fixture_path("sheets_halfdisc.toml"), "--out", target.to_str().unwrap()],
+        tmp.path(),
+    );
     assert_code(&out, 1);
     let err = text(&out.stderr);
     assert!(
@@ -236,7 +228,7 @@ fn a_build_that_fails_midway_does_not_lock_out_the_next_build() {
     std::fs::create_dir(&out_dir).unwrap();
     std::fs::write(out_dir.join("svg"), b"a user's file called svg").unwrap();
     let o = out_dir.to_str().unwrap();
-    let kit = fixture("sheets_halfdisc.toml");
+    let kit = fixture_path("sheets_halfdisc.toml");
     let first = raysheet(&["build", &kit, "--out", o], tmp.path());
     assert_code(&first, 2);
     assert!(text(&first.stderr).contains("is not a folder"), "{}", text(&first.stderr));
@@ -252,21 +244,23 @@ fn exit_codes_follow_main_rs() {
     let o = tmp.path().join("out");
     let o = o.to_str().unwrap();
     // 0: success (check prints a report).
-    assert_code(&raysheet(&["check", &fixture("sheets_halfdisc.toml")], tmp.path()), 0);
+    assert_code(&raysheet(&["check", &fixture_path("sheets_halfdisc.toml")], tmp.path()), 0);
     // 2: a kit file that does not exist is bad input.
     let out = raysheet(&["build", "no-such-kit.toml", "--out", o], tmp.path());
     assert_code(&out, 2);
     assert!(text(&out.stderr).contains("no-such-kit.toml"), "{}", text(&out.stderr));
     // 2: usage errors (an unknown flag, a missing --out, a bad --format).
     assert_code(
-        &raysheet(&["build", &fixture("sheets_halfdisc.toml"), "--out", o, "--colour"], tmp.path()),
+        &raysheet(&["build", &fixture_path("sheets_halfdisc.toml"), "--out", o, "--colour"], tmp.path()),
         2,
     );
-    let out = raysheet(&["build", &fixture("sheets_halfdisc.toml")], tmp.path());
+    let out = raysheet(&["build", &fixture_path("sheets_halfdisc.toml")], tmp.path());
     assert_code(&out, 2);
     assert!(text(&out.stderr).contains("--out"), "{}", text(&out.stderr));
-    let out =
-        raysheet(&["build", &fixture("sheets_halfdisc.toml"), "--out", o, "--format", "png"], tmp.path());
+    let out = raysheet(
+        &["build", &fixture_path("sheets_halfdisc.toml"), "--out", o, "--format", "png"],
+        tmp.path(),
+    );
     assert_code(&out, 2);
     assert!(text(&out.stderr).contains("png"), "{}", text(&out.stderr));
     // 1: the file system says no (see the unwritable-folder test).
@@ -277,13 +271,7 @@ fn exit_codes_follow_main_rs() {
 /// nothing to print: exit 2, a message saying so, and no folder made.
 #[test]
 fn build_of_a_kit_without_sheets_is_refused_and_writes_nothing() {
-    let tmp = tempfile::tempdir().unwrap();
-    let out_dir = tmp.path().join("out");
-    let out =
-        raysheet(&["build", &fixture("pieces_only.toml"), "--out", out_dir.to_str().unwrap()], tmp.path());
-    assert_code(&out, 2);
-    assert!(text(&out.stderr).contains("no [[sheets]]"), "{}", text(&out.stderr));
-    assert!(!out_dir.exists());
+    assert_build_refused("pieces_only.toml", "no [[sheets]]");
 }
 
 /// Runaway output is refused before any layout: a curved face of 1000 km
@@ -291,11 +279,16 @@ fn build_of_a_kit_without_sheets_is_refused_and_writes_nothing() {
 /// would tile over millions of pages. Exit 2, the limit named, nothing written.
 #[test]
 fn a_setup_that_would_tile_over_millions_of_pages_is_refused() {
+    assert_build_refused("sheets_runaway.toml", "2000 pages");
+}
+
+/// `build` of the fixture `kit` is refused before any output: exit 2, `word`
+/// in the message, and no output folder made.
+fn assert_build_refused(kit: &str, word: &str) {
     let tmp = tempfile::tempdir().unwrap();
     let out_dir = tmp.path().join("out");
-    let out =
-        raysheet(&["build", &fixture("sheets_runaway.toml"), "--out", out_dir.to_str().unwrap()], tmp.path());
+    let out = raysheet(&["build", &fixture_path(kit), "--out", out_dir.to_str().unwrap()], tmp.path());
     assert_code(&out, 2);
-    assert!(text(&out.stderr).contains("2000 pages"), "{}", text(&out.stderr));
-    assert!(!out_dir.exists());
+    assert!(text(&out.stderr).contains(word), "{kit}: {}", text(&out.stderr));
+    assert!(!out_dir.exists(), "{kit}: the output folder was made");
 }

@@ -5,7 +5,6 @@
 
 use std::collections::{BTreeMap, BTreeSet};
 use std::path::Path;
-use std::process::Command;
 
 use raysheet::answers::to_json;
 use raysheet::build::{Output, build_class};
@@ -16,6 +15,11 @@ use raysheet::paper::PaperSpec;
 use raysheet::plan::{ClassPlan, Group, SafeBand, folder_names, parse_roster, plan_class};
 use raysheet::scene::dump;
 use raysheet::summary::summary_csv;
+
+mod common {
+    pub mod cli;
+}
+use common::cli::{assert_code, fixture_path, raysheet};
 
 /// The default grid of drawn heights, mm (issue 4: "0.5 mm by default").
 const GRID_MM: f64 = 0.5;
@@ -30,10 +34,6 @@ const CONFUSABLE: &[char] = &['0', 'O', '1', 'I', 'l', 'L'];
 
 fn fixture_text(name: &str) -> String {
     std::fs::read_to_string(fixture_path(name)).expect("fixture is readable")
-}
-
-fn fixture_path(name: &str) -> String {
-    format!("{}/tests/fixtures/{name}", env!("CARGO_MANIFEST_DIR"))
 }
 
 fn fixture(name: &str) -> Kit {
@@ -428,18 +428,6 @@ fn too_many_groups_is_a_clear_error_naming_the_field_and_the_maximum() {
     assert!(e.contains(&format!("big.csv:{}", MAX_GROUPS + 2)) && e.contains(&MAX_GROUPS.to_string()), "{e}");
 }
 
-fn raysheet(args: &[&str], cwd: &Path) -> std::process::Output {
-    Command::new(env!("CARGO_BIN_EXE_raysheet"))
-        .args(args)
-        .current_dir(cwd)
-        .output()
-        .expect("the binary runs")
-}
-
-fn assert_ok(out: &std::process::Output) {
-    assert_eq!(out.status.code(), Some(0), "stderr: {}", String::from_utf8_lossy(&out.stderr));
-}
-
 fn page_count(path: &Path) -> usize {
     lopdf::Document::load(path).unwrap_or_else(|e| panic!("{}: {e}", path.display())).get_pages().len()
 }
@@ -452,7 +440,7 @@ fn cli_builds_a_folder_per_group_plus_the_whole_class_and_the_summary() {
         &["build", &fixture_path("class_trio.toml"), "--out", dir.to_str().unwrap(), "--seed", "7"],
         tmp.path(),
     );
-    assert_ok(&out);
+    assert_code(&out, 0);
     let kit = fixture("class_trio.toml");
     let groups = kit_groups(&kit);
     for g in &groups {
@@ -493,7 +481,7 @@ fn cli_roster_names_the_groups_and_their_folders() {
         "--format",
         "pdf",
     ];
-    assert_ok(&raysheet(&args, tmp.path()));
+    assert_code(&raysheet(&args, tmp.path()), 0);
     let names = parse_roster(&fixture_text("class_roster.csv"), "class_roster.csv").unwrap();
     assert_eq!(names.len(), 5, "the roster replaces the kit's three names");
     let mut seen = BTreeSet::new();

@@ -7,32 +7,29 @@
 //! (half-disc crossing, lens maker's formula, thick-lens formulas), the issue's
 //! answer-file spec, or "common practice, no source".
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+use std::path::Path;
+use std::process::Output;
 
 use serde_json::Value;
 
-const BIN: &str = env!("CARGO_BIN_EXE_raysheet");
+mod common {
+    pub mod cli;
+    pub mod close;
+}
+use common::cli::{assert_code, fixture_path, raysheet};
+use common::close::assert_close;
 
 /// Outcome words the answer file may use (issue 2, section 4).
 const OUTCOMES: [&str; 6] =
     ["crosses", "virtual", "total-internal-reflection", "leaves-through-edge", "parallel", "on-axis"];
 
-fn fixture(name: &str) -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures").join(name)
-}
-
 /// A temporary folder holding copies of the named fixtures.
 fn folder_with(fixtures: &[&str]) -> tempfile::TempDir {
     let dir = tempfile::tempdir().expect("a temporary folder");
     for f in fixtures {
-        std::fs::copy(fixture(f), dir.path().join(f)).expect("fixture copied");
+        std::fs::copy(fixture_path(f), dir.path().join(f)).expect("fixture copied");
     }
     dir
-}
-
-fn run(dir: &Path, args: &[&str]) -> Output {
-    Command::new(BIN).args(args).current_dir(dir).output().expect("the raysheet binary runs")
 }
 
 fn stdout(o: &Output) -> String {
@@ -41,18 +38,6 @@ fn stdout(o: &Output) -> String {
 
 fn stderr(o: &Output) -> String {
     String::from_utf8(o.stderr.clone()).expect("stderr is UTF-8")
-}
-
-fn assert_exit(o: &Output, code: i32) {
-    assert_eq!(o.status.code(), Some(code), "exit status\nstdout:\n{}\nstderr:\n{}", stdout(o), stderr(o));
-}
-
-fn assert_close(actual: f64, expected: f64, tol: f64, what: &str) {
-    assert!(
-        (actual - expected).abs() <= tol,
-        "{what}: got {actual}, expected {expected} (difference {:e}, tolerance {tol:e})",
-        actual - expected
-    );
 }
 
 /// Files in `dir` other than the given ones: check and solve write nothing.
@@ -68,8 +53,8 @@ fn extra_files(dir: &Path, expected: &[&str]) -> Vec<String> {
 
 fn solve_json(kit: &str) -> Value {
     let dir = folder_with(&[kit]);
-    let o = run(dir.path(), &["solve", kit, "--json"]);
-    assert_exit(&o, 0);
+    let o = raysheet(&["solve", kit, "--json"], dir.path());
+    assert_code(&o, 0);
     assert!(extra_files(dir.path(), &[kit]).is_empty(), "solve wrote files");
     serde_json::from_str(&stdout(&o))
         .unwrap_or_else(|e| panic!("solve --json is not JSON ({e}):\n{}", stdout(&o)))
@@ -111,8 +96,8 @@ fn thick_lens(r1: Option<f64>, r2: Option<f64>, t: f64, n: f64) -> (f64, f64, f6
 #[test]
 fn check_prints_the_pieces_table_and_safe_bands_with_reasons() {
     let dir = folder_with(&["bench_w3.toml"]);
-    let o = run(dir.path(), &["check", "bench_w3.toml"]);
-    assert_exit(&o, 0);
+    let o = raysheet(&["check", "bench_w3.toml"], dir.path());
+    assert_code(&o, 0);
     let out = stdout(&o);
     assert!(stderr(&o).is_empty(), "{}", stderr(&o));
     assert!(out.starts_with("Marlow Street, bench W3\n"), "{out}");
@@ -145,8 +130,8 @@ fn check_prints_the_pieces_table_and_safe_bands_with_reasons() {
 #[test]
 fn check_on_a_kit_with_pieces_and_no_sheets_reports_its_pieces() {
     let dir = folder_with(&["pieces_only.toml"]);
-    let o = run(dir.path(), &["check", "pieces_only.toml"]);
-    assert_exit(&o, 0);
+    let o = raysheet(&["check", "pieces_only.toml"], dir.path());
+    assert_code(&o, 0);
     let out = stdout(&o);
     assert!(out.contains("Pieces"), "{out}");
     // pcx-47: lens maker's formula (DESIGN.md) 1/f = 0.52/47 → 90.38 mm; the
@@ -164,10 +149,11 @@ fn check_warns_about_a_fixed_height_outside_the_band() {
     // 2 mm lies inside hd33 but below its safe band (there the crossing is
     // too shallow to locate well): accepted, with a warning that says why.
     let dir = tempfile::tempdir().unwrap();
-    let text = std::fs::read_to_string(fixture("bench_w3.toml")).unwrap().replace("[8, -8, 15]", "[8, 2]");
+    let text =
+        std::fs::read_to_string(fixture_path("bench_w3.toml")).unwrap().replace("[8, -8, 15]", "[8, 2]");
     std::fs::write(dir.path().join("kit.toml"), text).unwrap();
-    let o = run(dir.path(), &["check", "kit.toml"]);
-    assert_exit(&o, 0);
+    let o = raysheet(&["check", "kit.toml"], dir.path());
+    assert_code(&o, 0);
     let out = stdout(&o);
     assert!(out.contains("warning: guide height 2 mm lies outside the safe band"), "{out}");
 }
@@ -313,8 +299,8 @@ fn diverging_sheet_has_virtual_crossings_and_a_negative_bfl() {
 #[test]
 fn solve_without_json_prints_a_table() {
     let dir = folder_with(&["bench_w3.toml"]);
-    let o = run(dir.path(), &["solve", "bench_w3.toml"]);
-    assert_exit(&o, 0);
+    let o = raysheet(&["solve", "bench_w3.toml"], dir.path());
+    assert_code(&o, 0);
     let out = stdout(&o);
     assert!(out.contains("Sheet 1: curved-face with piece hd33"), "{out}");
     assert!(out.contains("on-axis"), "{out}");
@@ -326,14 +312,14 @@ fn solve_without_json_prints_a_table() {
 #[test]
 fn bad_kit_exits_2_with_file_line_column_on_stderr() {
     let dir = folder_with(&["bad_height.toml"]);
-    let text = std::fs::read_to_string(fixture("bad_height.toml")).unwrap();
+    let text = std::fs::read_to_string(fixture_path("bad_height.toml")).unwrap();
     // The error must point at the 29 in `heights_mm = [6, 29]`.
     let (ln, l) = text.lines().enumerate().find(|(_, l)| l.starts_with("heights_mm")).unwrap();
     let place = format!("bad_height.toml:{}:{}:", ln + 1, l.find("29").unwrap() + 1);
     for args in [&["check", "bad_height.toml"][..], &["solve", "bad_height.toml", "--json"][..]] {
         let cmd = args[0];
-        let o = run(dir.path(), args);
-        assert_exit(&o, 2);
+        let o = raysheet(args, dir.path());
+        assert_code(&o, 2);
         let err = stderr(&o);
         assert!(err.contains(&place), "{cmd}: expected {place:?} in:\n{err}");
         assert!(err.contains("field `sheets[1].heights_mm[2]`"), "{err}");
@@ -346,8 +332,8 @@ fn bad_kit_exits_2_with_file_line_column_on_stderr() {
 fn missing_kit_file_exits_2() {
     let dir = tempfile::tempdir().unwrap();
     for cmd in ["check", "solve"] {
-        let o = run(dir.path(), &[cmd, "no-such-kit.toml"]);
-        assert_exit(&o, 2);
+        let o = raysheet(&[cmd, "no-such-kit.toml"], dir.path());
+        assert_code(&o, 2);
         assert!(stderr(&o).contains("no-such-kit.toml"), "{}", stderr(&o));
         assert!(stdout(&o).is_empty());
     }
@@ -357,28 +343,28 @@ fn missing_kit_file_exits_2() {
 fn kit_that_is_not_utf8_exits_2() {
     let dir = tempfile::tempdir().unwrap();
     std::fs::write(dir.path().join("latin1.toml"), b"title = \"Salle \xe9\"\n").unwrap();
-    let o = run(dir.path(), &["check", "latin1.toml"]);
-    assert_exit(&o, 2);
+    let o = raysheet(&["check", "latin1.toml"], dir.path());
+    assert_code(&o, 2);
     assert!(stderr(&o).contains("UTF-8"), "{}", stderr(&o));
 }
 
 #[test]
 fn unknown_flag_exits_2() {
     let dir = folder_with(&["bench_w3.toml"]);
-    let o = run(dir.path(), &["check", "bench_w3.toml", "--frobnicate"]);
-    assert_exit(&o, 2);
+    let o = raysheet(&["check", "bench_w3.toml", "--frobnicate"], dir.path());
+    assert_code(&o, 2);
     assert!(stderr(&o).contains("--frobnicate"), "{}", stderr(&o));
-    let o = run(dir.path(), &["solve", "--jsn", "bench_w3.toml"]);
-    assert_exit(&o, 2);
-    let o = run(dir.path(), &[]);
-    assert_exit(&o, 2);
+    let o = raysheet(&["solve", "--jsn", "bench_w3.toml"], dir.path());
+    assert_code(&o, 2);
+    let o = raysheet(&[], dir.path());
+    assert_code(&o, 2);
 }
 
 #[test]
 fn bad_paper_flag_exits_2() {
     let dir = folder_with(&["bench_w3.toml"]);
-    let o = run(dir.path(), &["check", "bench_w3.toml", "--paper", "B7"]);
-    assert_exit(&o, 2);
+    let o = raysheet(&["check", "bench_w3.toml", "--paper", "B7"], dir.path());
+    assert_code(&o, 2);
     assert!(stderr(&o).contains("--paper"), "{}", stderr(&o));
 }
 
@@ -387,18 +373,18 @@ fn bad_paper_flag_exits_2() {
 #[test]
 fn demo_print_kit_is_a_kit_that_check_accepts() {
     let dir = tempfile::tempdir().unwrap();
-    let o = run(dir.path(), &["demo", "--print-kit"]);
-    assert_exit(&o, 0);
+    let o = raysheet(&["demo", "--print-kit"], dir.path());
+    assert_code(&o, 0);
     let text = stdout(&o);
     assert_eq!(text, raysheet::demo::DEMO_KIT);
     assert!(extra_files(dir.path(), &[]).is_empty(), "--print-kit wrote files");
     std::fs::write(dir.path().join("my-kit.toml"), &text).unwrap();
-    let o = run(dir.path(), &["check", "my-kit.toml"]);
-    assert_exit(&o, 0);
+    let o = raysheet(&["check", "my-kit.toml"], dir.path());
+    assert_code(&o, 0);
     let out = stdout(&o);
     assert!(out.contains("Pieces") && out.contains("safe band"), "{out}");
-    let o = run(dir.path(), &["solve", "my-kit.toml", "--json"]);
-    assert_exit(&o, 0);
+    let o = raysheet(&["solve", "my-kit.toml", "--json"], dir.path());
+    assert_code(&o, 0);
     let a: Value = serde_json::from_str(&stdout(&o)).expect("JSON");
     assert!(!a["sheets"].as_array().unwrap().is_empty());
 }

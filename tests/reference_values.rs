@@ -6,19 +6,16 @@
 use raysheet::optics::{Entry, Face, Outcome, Outline, Paraxial, Piece, trace_parallel};
 use serde_json::Value;
 
+mod common {
+    pub mod close;
+}
+use common::close::assert_close;
+
 /// Paraxial values and crossings agree to this, mm (the brief's tolerance;
 /// rayoptics agrees with the closed forms to about 1e-13 mm).
 const TOL_MM: f64 = 1e-9;
 /// Exit slopes (dy/dx) agree to this.
 const TOL_SLOPE: f64 = 1e-12;
-
-fn assert_close(actual: f64, expected: f64, tol: f64, what: &str) {
-    assert!(
-        (actual - expected).abs() <= tol,
-        "{what}: got {actual}, expected {expected} (difference {:e}, tolerance {tol:e})",
-        actual - expected
-    );
-}
 
 fn reference() -> Value {
     let path = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/rayoptics_values.json");

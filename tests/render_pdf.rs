@@ -3,176 +3,26 @@
 //! poppler's `pdftoppm` is installed, the pixels of a 300 dpi rendering.
 
 use std::f64::consts::{FRAC_PI_2, PI};
-use std::process::Command;
 
-use lopdf::{Dictionary, Document, Object, ObjectId};
+use lopdf::{Document, ObjectId};
 use raysheet::geom::{Point, Vec2};
 use raysheet::render::pdf::bezier::{arc_cubics, cubic_point};
 use raysheet::render::{RenderError, render_pdf};
-use raysheet::scene::{Anchor, Dash, Item, MarkerShape, OutlinePart, Page, Rect, Scene, Stroke, Weight};
+use raysheet::scene::{Anchor, Item, Page, Scene, Stroke, Weight};
 
-/// ISO 32000-1: 1 pt = 1/72 in, 1 in = 25.4 mm.
-const PT_PER_MM: f64 = 72.0 / 25.4;
-
-/// Start of the 100 mm horizontal line on both pages, mm.
-const LINE_100_START: Point = Point::new(20.0, 250.0);
-/// Start of the 50 mm vertical line on page 1, mm.
-const LINE_50_START: Point = Point::new(150.0, 150.0);
-/// The 90° arc of radius 200 mm on page 1.
-const ARC_CENTER: Point = Point::new(5.0, 5.0);
-const ARC_RADIUS: f64 = 200.0;
-
-fn text(at: Point, s: &str, size_pt: f64, weight: Weight, anchor: Anchor, rotate_deg: f64) -> Item {
-    Item::Text { at, text: s.into(), size_pt, weight, anchor, rotate_deg, gray: 0.0 }
+mod common {
+    pub mod pdfread;
+    pub mod scene;
 }
-
-/// Two pages, A4 portrait and US Letter, with one of every primitive.
-fn test_scene() -> Scene {
-    let thin = Stroke::solid(0.3);
-    // A plano-convex outline: flat face at x = 60, convex face about (40, 120).
-    let (dx, dy): (f64, f64) = (30.0, 20.0);
-    let lens = Item::Outline {
-        parts: vec![
-            OutlinePart::MoveTo { to: Point::new(60.0, 140.0) },
-            OutlinePart::LineTo { to: Point::new(60.0, 100.0) },
-            OutlinePart::LineTo { to: Point::new(70.0, 100.0) },
-            OutlinePart::ArcTo {
-                center: Point::new(40.0, 120.0),
-                radius_mm: dx.hypot(dy),
-                start_rad: (-dy).atan2(dx),
-                sweep_rad: 2.0 * dy.atan2(dx),
-            },
-        ],
-        fill: Some(0.9),
-        stroke: Stroke::solid(0.25),
-    };
-    let a4 = Page {
-        width_mm: 210.0,
-        height_mm: 297.0,
-        name: "sheet-01".into(),
-        items: vec![
-            Item::Line { from: LINE_100_START, to: LINE_100_START + Vec2::new(100.0, 0.0), stroke: thin },
-            Item::Line { from: LINE_50_START, to: LINE_50_START + Vec2::new(0.0, 50.0), stroke: thin },
-            Item::Arc {
-                center: ARC_CENTER,
-                radius_mm: ARC_RADIUS,
-                start_rad: 0.0,
-                sweep_rad: FRAC_PI_2,
-                stroke: thin.dashed(Dash::DashDot { long_mm: 8.0, short_mm: 1.0, gap_mm: 1.5 }),
-            },
-            lens,
-            Item::Polyline {
-                points: vec![Point::new(80.0, 30.0), Point::new(90.0, 40.0), Point::new(100.0, 30.0)],
-                closed: false,
-                stroke: thin.dashed(Dash::Dashed { on_mm: 2.0, off_mm: 1.0 }),
-            },
-            Item::Marker {
-                at: Point::new(30.0, 60.0),
-                shape: MarkerShape::Cross,
-                size_mm: 4.0,
-                stroke: thin,
-            },
-            Item::Marker {
-                at: Point::new(40.0, 60.0),
-                shape: MarkerShape::Saltire,
-                size_mm: 4.0,
-                stroke: thin,
-            },
-            Item::Marker { at: Point::new(50.0, 60.0), shape: MarkerShape::Dot, size_mm: 2.0, stroke: thin },
-            Item::Marker { at: Point::new(60.0, 60.0), shape: MarkerShape::Ring, size_mm: 3.0, stroke: thin },
-            Item::Arrowhead {
-                tip: Point::new(130.0, 250.0),
-                dir: Vec2::new(1.0, 0.0),
-                length_mm: 3.0,
-                width_mm: 2.0,
-                gray: 0.0,
-            },
-            Item::Box {
-                rect: Rect::from_corners(Point::new(20.0, 215.0), Point::new(90.0, 230.0)),
-                fill: Some(0.95),
-                stroke: Some(Stroke::solid(0.2)),
-            },
-            text(Point::new(20.0, 270.0), "θ₁ → n = 1.49", 10.0, Weight::Regular, Anchor::Start, 0.0),
-            text(Point::new(105.0, 282.0), "Ærø Ångström", 12.0, Weight::Bold, Anchor::Middle, 0.0),
-            text(Point::new(195.0, 150.0), "optical axis", 8.0, Weight::Regular, Anchor::End, 90.0),
-            Item::Group {
-                clip: Rect::from_corners(Point::new(120.0, 60.0), Point::new(190.0, 120.0)),
-                offset: Vec2::new(5.0, 5.0),
-                items: vec![
-                    Item::Line { from: Point::new(100.0, 80.0), to: Point::new(200.0, 80.0), stroke: thin },
-                    Item::Marker {
-                        at: Point::new(150.0, 80.0),
-                        shape: MarkerShape::Ring,
-                        size_mm: 5.0,
-                        stroke: thin,
-                    },
-                ],
-            },
-        ],
-    };
-    let letter = Page {
-        width_mm: 215.9,
-        height_mm: 279.4,
-        name: "sheet-02".into(),
-        items: vec![
-            Item::Line { from: LINE_100_START, to: LINE_100_START + Vec2::new(100.0, 0.0), stroke: thin },
-            text(Point::new(20.0, 240.0), "n = 1.49", 10.0, Weight::Regular, Anchor::Start, 0.0),
-        ],
-    };
-    Scene { title: "Curved face — test sheet".into(), pages: vec![a4, letter] }
-}
-
-fn load(bytes: &[u8]) -> Document {
-    Document::load_mem(bytes).expect("lopdf reads the PDF")
-}
-
-fn page_ids(doc: &Document) -> Vec<ObjectId> {
-    doc.get_pages().into_values().collect()
-}
-
-fn num(o: &Object) -> f64 {
-    f64::from(o.as_float().expect("a number"))
-}
-
-fn deref<'a>(doc: &'a Document, o: &'a Object) -> &'a Object {
-    doc.dereference(o).expect("reference resolves").1
-}
-
-fn dict<'a>(doc: &'a Document, d: &'a Dictionary, key: &[u8]) -> &'a Dictionary {
-    deref(doc, d.get(key).expect("key present")).as_dict().expect("a dictionary")
-}
-
-/// A 2D affine map `[a b c d e f]`, as PDF writes matrices.
-#[derive(Clone, Copy, Debug)]
-struct Matrix([f64; 6]);
-
-impl Matrix {
-    const IDENTITY: Matrix = Matrix([1.0, 0.0, 0.0, 1.0, 0.0, 0.0]);
-
-    /// `self` applied first, then `outer` (PDF: `cm` pre-multiplies the CTM).
-    fn then(self, outer: Matrix) -> Matrix {
-        let [a, b, c, d, e, f] = self.0;
-        let [oa, ob, oc, od, oe, of] = outer.0;
-        Matrix([
-            a * oa + b * oc,
-            a * ob + b * od,
-            c * oa + d * oc,
-            c * ob + d * od,
-            e * oa + f * oc + oe,
-            e * ob + f * od + of,
-        ])
-    }
-
-    fn apply(self, x: f64, y: f64) -> (f64, f64) {
-        let [a, b, c, d, e, f] = self.0;
-        (a * x + c * y + e, b * x + d * y + f)
-    }
-}
+use common::pdfread::{
+    PT_PER_MM, Seg, Visit, deref, dict, have_pdftoppm, load, media_box, page_ids, pdftoppm_page_1, walk,
+};
+use common::scene::{ARC_CENTER, ARC_RADIUS, LINE_50_START, LINE_100_START, test_scene, text};
 
 /// What the content stream draws, in device space (points on the page).
 #[derive(Debug, Default)]
 struct Drawn {
-    /// Straight segments `m … l` and `l … l`.
+    /// Straight segments: each `l`, the four sides of an `re`, the closing side of an `h`.
     segments: Vec<((f64, f64), (f64, f64))>,
     /// Cubics: start, c1, c2, end.
     cubics: Vec<[(f64, f64); 4]>,
@@ -181,39 +31,26 @@ struct Drawn {
     first_cm: Option<[f64; 6]>,
 }
 
-/// Parses a page's operators and applies every `cm` (with `q`/`Q`).
-fn drawn(doc: &Document, page: ObjectId) -> Drawn {
-    let bytes = doc.get_page_content(page).expect("page content");
-    let content = lopdf::content::Content::decode(&bytes).expect("content parses");
-    let mut out = Drawn::default();
-    let mut ctm = Matrix::IDENTITY;
-    let mut stack = Vec::new();
-    let mut current = (0.0, 0.0);
-    for op in &content.operations {
-        let v: Vec<f64> = op.operands.iter().filter_map(|o| o.as_float().ok().map(f64::from)).collect();
-        match op.operator.as_str() {
-            "q" => stack.push(ctm),
-            "Q" => ctm = stack.pop().expect("balanced q/Q"),
-            "cm" => {
-                let m = [v[0], v[1], v[2], v[3], v[4], v[5]];
-                out.cm_count += 1;
-                out.first_cm.get_or_insert(m);
-                ctm = Matrix(m).then(ctm);
+impl Visit for Drawn {
+    fn transform(&mut self, m: [f64; 6]) {
+        self.cm_count += 1;
+        self.first_cm.get_or_insert(m);
+    }
+
+    fn path(&mut self, segs: Vec<Seg>, _width_pt: f64, _stroked: bool) {
+        for seg in segs {
+            match seg {
+                Seg::Line(a, b) => self.segments.push((a, b)),
+                Seg::Cubic(c) => self.cubics.push(c),
             }
-            "m" => current = ctm.apply(v[0], v[1]),
-            "l" => {
-                let to = ctm.apply(v[0], v[1]);
-                out.segments.push((current, to));
-                current = to;
-            }
-            "c" => {
-                let to = ctm.apply(v[4], v[5]);
-                out.cubics.push([current, ctm.apply(v[0], v[1]), ctm.apply(v[2], v[3]), to]);
-                current = to;
-            }
-            _ => {}
         }
     }
+}
+
+/// Parses a page's operators and applies every `cm` (with `q`/`Q`).
+fn drawn(doc: &Document, page: ObjectId) -> Drawn {
+    let mut out = Drawn::default();
+    walk(doc, page, &mut out);
     out
 }
 
@@ -239,8 +76,7 @@ fn media_boxes_are_a4_and_us_letter_in_points() {
     // ISO 216 A4 210 × 297 mm = 595.276 × 841.890 pt; US Letter 8.5 × 11 in =
     // 612 × 792 pt (ISO 32000-1: 1 pt = 1/72 in).
     for (&id, (w, h)) in pages.iter().zip([(595.276, 841.890), (612.0, 792.0)]) {
-        let page = doc.get_dictionary(id).unwrap();
-        let mb: Vec<f64> = page.get(b"MediaBox").unwrap().as_array().unwrap().iter().map(num).collect();
+        let mb = media_box(&doc, id);
         assert_eq!(&mb[..2], &[0.0, 0.0]);
         assert!((mb[2] - w).abs() < 0.01, "width {} pt, want {w}", mb[2]);
         assert!((mb[3] - h).abs() < 0.01, "height {} pt, want {h}", mb[3]);
@@ -478,8 +314,7 @@ fn text_is_extractable_through_to_unicode() {
 /// and checks the 100 mm line's pixels.
 #[test]
 fn pdftoppm_at_300_dpi_shows_the_100_mm_line_at_true_size() {
-    if Command::new("pdftoppm").arg("-v").output().is_err() {
-        println!("note: pdftoppm is not installed (poppler-utils); skipping the pixel check");
+    if !have_pdftoppm() {
         return;
     }
     let dir = tempfile::tempdir().unwrap();
@@ -488,16 +323,7 @@ fn pdftoppm_at_300_dpi_shows_the_100_mm_line_at_true_size() {
     let px_per_mm = 300.0 / 25.4;
     // Only a band around the line: rows from 40 mm to 60 mm below the top edge.
     let (top_px, rows) = ((40.0 * px_per_mm) as u32, (20.0 * px_per_mm) as u32);
-    let out = dir.path().join("band");
-    let status = Command::new("pdftoppm")
-        .args(["-r", "300", "-f", "1", "-l", "1", "-png", "-singlefile", "-gray"])
-        .args(["-x", "0", "-y", &top_px.to_string(), "-W", "2480", "-H", &rows.to_string()])
-        .arg(&pdf)
-        .arg(&out)
-        .status()
-        .unwrap();
-    assert!(status.success());
-    let png = resvg::tiny_skia::Pixmap::load_png(out.with_extension("png")).unwrap();
+    let png = pdftoppm_page_1(&pdf, 0, top_px, 2480, rows);
     let level = |x_mm: f64, y_mm_from_top: f64| {
         let x = (x_mm * px_per_mm) as u32;
         let y = (y_mm_from_top * px_per_mm) as u32 - top_px;

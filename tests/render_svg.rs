@@ -2,105 +2,22 @@
 //! pixels, millimetre user units, pixels on and off the drawn lines, text kept,
 //! determinism.
 
-use std::f64::consts::FRAC_PI_2;
-
-use raysheet::geom::{Point, Vec2};
+use raysheet::geom::Point;
 use raysheet::render::{RenderError, render_svg_page};
-use raysheet::scene::{Anchor, Dash, Item, MarkerShape, OutlinePart, Page, Rect, Stroke, Weight};
+use raysheet::scene::{Anchor, Page, Weight};
 use resvg::tiny_skia;
+
+mod common {
+    pub mod scene;
+}
+use common::scene::{test_scene, text};
 
 /// CSS: 1 in = 96 px = 25.4 mm (CSS Values and Units Level 3, absolute lengths).
 const PX_PER_MM: f64 = 96.0 / 25.4;
 
-fn text(at: Point, s: &str, size_pt: f64, weight: Weight, anchor: Anchor, rotate_deg: f64) -> Item {
-    Item::Text { at, text: s.into(), size_pt, weight, anchor, rotate_deg, gray: 0.0 }
-}
-
-/// An A4 portrait page with one of every primitive.
+/// The shared test scene's A4 portrait page, with one of every primitive.
 fn a4_page() -> Page {
-    let thin = Stroke::solid(0.3);
-    Page {
-        width_mm: 210.0,
-        height_mm: 297.0,
-        name: "sheet-01".into(),
-        items: vec![
-            // 100 mm across, 47 mm below the top edge.
-            Item::Line { from: Point::new(20.0, 250.0), to: Point::new(120.0, 250.0), stroke: thin },
-            Item::Line { from: Point::new(150.0, 150.0), to: Point::new(150.0, 200.0), stroke: thin },
-            Item::Arc {
-                center: Point::new(5.0, 5.0),
-                radius_mm: 200.0,
-                start_rad: 0.0,
-                sweep_rad: FRAC_PI_2,
-                stroke: Stroke::solid(0.5),
-            },
-            Item::Arc {
-                center: Point::new(40.0, 40.0),
-                radius_mm: 10.0,
-                start_rad: 0.0,
-                sweep_rad: 2.0 * std::f64::consts::PI,
-                stroke: thin.dashed(Dash::Dashed { on_mm: 2.0, off_mm: 1.0 }),
-            },
-            Item::Outline {
-                parts: vec![
-                    OutlinePart::MoveTo { to: Point::new(60.0, 140.0) },
-                    OutlinePart::LineTo { to: Point::new(60.0, 100.0) },
-                    OutlinePart::LineTo { to: Point::new(70.0, 100.0) },
-                    OutlinePart::ArcTo {
-                        center: Point::new(40.0, 120.0),
-                        radius_mm: 30.0_f64.hypot(20.0),
-                        start_rad: (-20.0_f64).atan2(30.0),
-                        sweep_rad: 2.0 * 20.0_f64.atan2(30.0),
-                    },
-                ],
-                fill: Some(0.9),
-                stroke: Stroke::solid(0.25),
-            },
-            Item::Polyline {
-                points: vec![Point::new(80.0, 30.0), Point::new(90.0, 40.0), Point::new(100.0, 30.0)],
-                closed: true,
-                stroke: thin.dashed(Dash::DashDot { long_mm: 6.0, short_mm: 1.0, gap_mm: 1.0 }),
-            },
-            Item::Marker {
-                at: Point::new(30.0, 60.0),
-                shape: MarkerShape::Cross,
-                size_mm: 4.0,
-                stroke: thin,
-            },
-            Item::Marker {
-                at: Point::new(40.0, 60.0),
-                shape: MarkerShape::Saltire,
-                size_mm: 4.0,
-                stroke: thin,
-            },
-            Item::Marker { at: Point::new(50.0, 60.0), shape: MarkerShape::Dot, size_mm: 2.0, stroke: thin },
-            Item::Marker { at: Point::new(60.0, 60.0), shape: MarkerShape::Ring, size_mm: 3.0, stroke: thin },
-            Item::Arrowhead {
-                tip: Point::new(130.0, 250.0),
-                dir: Vec2::new(1.0, 0.0),
-                length_mm: 3.0,
-                width_mm: 2.0,
-                gray: 0.0,
-            },
-            Item::Box {
-                rect: Rect::from_corners(Point::new(20.0, 215.0), Point::new(90.0, 230.0)),
-                fill: Some(0.95),
-                stroke: Some(Stroke::solid(0.2).gray(0.4)),
-            },
-            text(Point::new(20.0, 270.0), "θ₁ → n = 1.49", 10.0, Weight::Regular, Anchor::Start, 0.0),
-            text(Point::new(105.0, 282.0), "Ærø Ångström", 12.0, Weight::Bold, Anchor::Middle, 0.0),
-            text(Point::new(195.0, 150.0), "optical axis", 8.0, Weight::Regular, Anchor::End, 90.0),
-            Item::Group {
-                clip: Rect::from_corners(Point::new(120.0, 60.0), Point::new(190.0, 120.0)),
-                offset: Vec2::new(5.0, 5.0),
-                items: vec![Item::Line {
-                    from: Point::new(100.0, 80.0),
-                    to: Point::new(200.0, 80.0),
-                    stroke: thin,
-                }],
-            },
-        ],
-    }
+    test_scene().pages.remove(0)
 }
 
 fn options() -> usvg::Options<'static> {

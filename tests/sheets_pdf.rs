@@ -4,20 +4,21 @@
 //! setup longer than the page. When poppler's `pdftoppm` is installed, the
 //! outline's height is also measured in the pixels of a 300 dpi rendering.
 
-use std::process::Command;
-
-use lopdf::{Document, Object, ObjectId};
-use raysheet::build::{Output, build_plans};
+use lopdf::{Document, ObjectId};
+use raysheet::build::Output;
 use raysheet::cli::Formats;
-use raysheet::geom::Vec2;
-use raysheet::kit::Kit;
-use raysheet::layout::{self, TILE_OVERLAP_MM, Templates};
-use raysheet::paper::{Orientation, PaperSize, PaperSpec};
-use raysheet::plan::{SheetPlan, plan_kit};
-use raysheet::scene::{Item, Page};
+use raysheet::layout::{self, TILE_OVERLAP_MM};
+use raysheet::paper::Orientation;
+use raysheet::plan::plan_kit;
 
-/// ISO 32000-1: 1 pt = 1/72 in, and 1 in = 25.4 mm.
-const PT_PER_MM: f64 = 72.0 / 25.4;
+mod common {
+    pub mod pdfread;
+    pub mod sheets;
+}
+use common::pdfread::{
+    PT_PER_MM, Seg, Visit, dict, have_pdftoppm, load, media_box, page_ids, pdftoppm_page_1, walk,
+};
+use common::sheets::{build, file, fixture, group, paper, scenes};
 
 /// Radius of the half-disc `hd27` in `sheets_halfdisc.toml` (the fixture's own number).
 const HALF_DISC_R_MM: f64 = 27.0;
@@ -28,90 +29,6 @@ const OUTLINE_W_MM: f64 = 0.35;
 
 const PDF_ONLY: Formats = Formats { pdf: true, svg: false };
 
-fn fixture(name: &str) -> Kit {
-    let path = format!("{}/tests/fixtures/{name}", env!("CARGO_MANIFEST_DIR"));
-    let text = std::fs::read_to_string(&path).expect("fixture is readable");
-    Kit::from_toml(&text, name).unwrap_or_else(|e| panic!("fixture {name} is valid: {e}"))
-}
-
-fn paper(size: &str, orientation: Orientation) -> PaperSpec {
-    PaperSpec { size: PaperSize::named(size).expect("a named size"), orientation, margin_mm: 10.0 }
-}
-
-fn build(kit: &Kit, paper: &PaperSpec, formats: Formats) -> Vec<Output> {
-    let plans = plan_kit(kit, paper);
-    build_plans(kit, &plans, paper, formats, None).expect("the kit builds")
-}
-
-fn file<'a>(outputs: &'a [Output], path: &str) -> &'a [u8] {
-    let names: Vec<&str> = outputs.iter().map(|o| o.path.as_str()).collect();
-    &outputs.iter().find(|o| o.path == path).unwrap_or_else(|| panic!("no {path} among {names:?}")).bytes
-}
-
-fn load(bytes: &[u8]) -> Document {
-    Document::load_mem(bytes).expect("lopdf reads the PDF")
-}
-
-fn pages(doc: &Document) -> Vec<ObjectId> {
-    doc.get_pages().into_values().collect()
-}
-
-fn num(o: &Object) -> f64 {
-    f64::from(o.as_float().expect("a number"))
-}
-
-fn deref<'a>(doc: &'a Document, o: &'a Object) -> &'a Object {
-    doc.dereference(o).expect("reference resolves").1
-}
-
-/// The page's MediaBox `[x0 y0 x1 y1]`, in points.
-fn media_box(doc: &Document, page: ObjectId) -> [f64; 4] {
-    let d = doc.get_dictionary(page).expect("page dictionary");
-    let arr = deref(doc, d.get(b"MediaBox").expect("MediaBox on the page")).as_array().expect("an array");
-    [num(&arr[0]), num(&arr[1]), num(&arr[2]), num(&arr[3])]
-}
-
-/// A 2D affine map `[a b c d e f]`, as PDF writes matrices.
-#[derive(Clone, Copy, Debug)]
-struct Matrix([f64; 6]);
-
-impl Matrix {
-    const IDENTITY: Matrix = Matrix([1.0, 0.0, 0.0, 1.0, 0.0, 0.0]);
-
-    /// `self` applied first, then `outer` (ISO 32000-1 8.4.4: `cm` makes
-    /// CTM' = M × CTM).
-    fn then(self, outer: Matrix) -> Matrix {
-        let [a, b, c, d, e, f] = self.0;
-        let [oa, ob, oc, od, oe, of] = outer.0;
-        Matrix([
-            a * oa + b * oc,
-            a * ob + b * od,
-            c * oa + d * oc,
-            c * ob + d * od,
-            e * oa + f * oc + oe,
-            e * ob + f * od + of,
-        ])
-    }
-
-    fn apply(self, x: f64, y: f64) -> (f64, f64) {
-        let [a, b, c, d, e, f] = self.0;
-        (a * x + c * y + e, b * x + d * y + f)
-    }
-
-    /// How much the map scales lengths (for a uniform scale and rotation).
-    fn scale(self) -> f64 {
-        let [a, b, c, d, ..] = self.0;
-        (a * d - b * c).abs().sqrt()
-    }
-}
-
-/// One piece of a path, in device space (points on the page).
-#[derive(Clone, Copy, Debug)]
-enum Seg {
-    Line((f64, f64), (f64, f64)),
-    Cubic([(f64, f64); 4]),
-}
-
 /// A stroked path: its pieces and its line width, both in device space.
 #[derive(Clone, Debug)]
 struct Stroked {
@@ -119,62 +36,19 @@ struct Stroked {
     width_pt: f64,
 }
 
-/// Walks a page's operators with a graphics-state stack (`q`/`Q` save and
-/// restore the CTM and the line width; `cm` pre-multiplies the CTM) and returns
-/// every stroked path in device space.
-fn stroked_paths(doc: &Document, page: ObjectId) -> Vec<Stroked> {
-    let bytes = doc.get_page_content(page).expect("page content");
-    let content = lopdf::content::Content::decode(&bytes).expect("content parses");
-    let mut ctm = Matrix::IDENTITY;
-    let mut width = 1.0; // ISO 32000-1 table 52: the initial line width is 1.0
-    let mut stack = Vec::new();
-    let mut segs = Vec::new();
-    let (mut current, mut start) = ((0.0, 0.0), (0.0, 0.0));
-    let mut out = Vec::new();
-    for op in &content.operations {
-        let v: Vec<f64> = op.operands.iter().filter_map(|o| o.as_float().ok().map(f64::from)).collect();
-        match op.operator.as_str() {
-            "q" => stack.push((ctm, width)),
-            "Q" => (ctm, width) = stack.pop().expect("balanced q/Q"),
-            "cm" => ctm = Matrix([v[0], v[1], v[2], v[3], v[4], v[5]]).then(ctm),
-            "w" => width = v[0],
-            "m" => {
-                current = ctm.apply(v[0], v[1]);
-                start = current;
-            }
-            "l" => {
-                let to = ctm.apply(v[0], v[1]);
-                segs.push(Seg::Line(current, to));
-                current = to;
-            }
-            "c" => {
-                let to = ctm.apply(v[4], v[5]);
-                segs.push(Seg::Cubic([current, ctm.apply(v[0], v[1]), ctm.apply(v[2], v[3]), to]));
-                current = to;
-            }
-            "re" => {
-                let (x, y, w, h) = (v[0], v[1], v[2], v[3]);
-                let c = [(x, y), (x + w, y), (x + w, y + h), (x, y + h)].map(|(a, b)| ctm.apply(a, b));
-                for k in 0..4 {
-                    segs.push(Seg::Line(c[k], c[(k + 1) % 4]));
-                }
-                current = c[0];
-                start = c[0];
-            }
-            "h" => {
-                if current != start {
-                    segs.push(Seg::Line(current, start));
-                }
-                current = start;
-            }
-            "S" | "s" | "B" | "B*" | "b" | "b*" => {
-                let width_pt = width * ctm.scale();
-                out.push(Stroked { segs: std::mem::take(&mut segs), width_pt });
-            }
-            "f" | "F" | "f*" | "n" => segs.clear(),
-            _ => {}
+/// Collects the stroked paths of a walk.
+impl Visit for Vec<Stroked> {
+    fn path(&mut self, segs: Vec<Seg>, width_pt: f64, stroked: bool) {
+        if stroked {
+            self.push(Stroked { segs, width_pt });
         }
     }
+}
+
+/// Every stroked path on a page, in device space.
+fn stroked_paths(doc: &Document, page: ObjectId) -> Vec<Stroked> {
+    let mut out = Vec::new();
+    walk(doc, page, &mut out);
     out
 }
 
@@ -232,22 +106,6 @@ fn extent_mm(p: &Stroked) -> (f64, f64, f64, f64) {
     e
 }
 
-/// The offset of the setup drawing on a page: the `Item::Group` that layout
-/// puts the sheet frame in (src/layout/mod.rs, `pages_for`).
-fn group_offset(page: &Page) -> Vec2 {
-    page.items
-        .iter()
-        .find_map(|it| match it {
-            Item::Group { offset, .. } => Some(*offset),
-            _ => None,
-        })
-        .expect("the setup drawing is a group")
-}
-
-fn scenes(kit: &Kit, plans: &[SheetPlan], paper: &PaperSpec) -> layout::SheetSet {
-    layout::layout(&kit.title, plans, paper, &Templates::shipped().expect("shipped templates"))
-}
-
 #[test]
 fn page_sizes_match_iso_216_and_us_letter_in_points_for_sheets_and_keys() {
     let kit = fixture("sheets_halfdisc.toml");
@@ -267,7 +125,7 @@ fn page_sizes_match_iso_216_and_us_letter_in_points_for_sheets_and_keys() {
         let out = build(&kit, &paper(size, orientation), PDF_ONLY);
         for name in ["sheets.pdf", "keys.pdf"] {
             let doc = load(file(&out, name));
-            let ids = pages(&doc);
+            let ids = page_ids(&doc);
             assert!(!ids.is_empty(), "{size} {orientation:?} {name}: no pages");
             for id in ids {
                 let [x0, y0, x1, y1] = media_box(&doc, id);
@@ -292,8 +150,7 @@ fn catalog_asks_viewers_to_print_at_actual_size() {
     for name in ["sheets.pdf", "keys.pdf"] {
         let doc = load(file(&out, name));
         let catalog = doc.catalog().expect("a catalog");
-        let prefs = deref(&doc, catalog.get(b"ViewerPreferences").expect("ViewerPreferences in the catalog"));
-        let prefs = prefs.as_dict().expect("a dictionary");
+        let prefs = dict(&doc, catalog, b"ViewerPreferences");
         let scaling = prefs.get(b"PrintScaling").expect("PrintScaling").as_name().expect("a name");
         assert_eq!(scaling, b"None", "{name}");
     }
@@ -308,7 +165,7 @@ fn scale_bars_measure_100_mm_across_and_50_mm_up_after_the_cm_transforms() {
         let out = build(&kit, &paper("A4", orientation), PDF_ONLY);
         for name in ["sheets.pdf", "keys.pdf"] {
             let doc = load(file(&out, name));
-            for id in pages(&doc) {
+            for id in page_ids(&doc) {
                 let paths = stroked_paths(&doc, id);
                 // The scale check is the only single straight stroke at the bar
                 // width between 95 and 105 mm long (the table's rules, the axis
@@ -358,9 +215,9 @@ fn the_half_disc_outline_spans_its_diameter_on_the_page() {
     let out = build(&kit, &p, PDF_ONLY);
     for (name, scene) in [("sheets.pdf", &set.sheets), ("keys.pdf", &set.keys)] {
         let doc = load(file(&out, name));
-        let ids = pages(&doc);
+        let ids = page_ids(&doc);
         assert_eq!(ids.len(), scene.pages.len(), "{name}");
-        let offset = group_offset(&scene.pages[0]);
+        let offset = group(&scene.pages[0]).0;
         // The outline is the only stroke with curves at the outline width (the
         // key's rings are 0.25 mm; its dots are filled, not stroked).
         let outlines: Vec<Stroked> = stroked_paths(&doc, ids[0])
@@ -389,14 +246,13 @@ fn the_half_disc_outline_spans_its_diameter_on_the_page() {
 /// span the disc's chord there plus one line width. Skipped without `pdftoppm`.
 #[test]
 fn pdftoppm_shows_the_half_disc_at_true_height() {
-    if Command::new("pdftoppm").arg("-v").output().is_err() {
-        println!("note: pdftoppm is not installed (poppler-utils); skipping the pixel check");
+    if !have_pdftoppm() {
         return;
     }
     let kit = fixture("sheets_halfdisc.toml");
     let p = paper("A4", Orientation::Auto);
     let plans = plan_kit(&kit, &p);
-    let offset = group_offset(&scenes(&kit, &plans, &p).sheets.pages[0]);
+    let offset = group(&scenes(&kit, &plans, &p).sheets.pages[0]).0;
     let dir = tempfile::tempdir().unwrap();
     let pdf = dir.path().join("sheets.pdf");
     std::fs::write(&pdf, file(&build(&kit, &p, PDF_ONLY), "sheets.pdf")).unwrap();
@@ -411,16 +267,7 @@ fn pdftoppm_shows_the_half_disc_at_true_height() {
     let x_px = ((offset.x + dx) * px_per_mm).round() as u32;
     let top_mm = page_h - (offset.y + r + 3.0); // SVG-like y down from the top edge
     let (top_px, rows) = ((top_mm * px_per_mm) as u32, ((2.0 * r + 6.0) * px_per_mm) as u32);
-    let png_stem = dir.path().join("strip");
-    let status = Command::new("pdftoppm")
-        .args(["-r", "300", "-f", "1", "-l", "1", "-png", "-singlefile", "-gray"])
-        .args(["-x", &x_px.to_string(), "-y", &top_px.to_string(), "-W", "1", "-H", &rows.to_string()])
-        .arg(&pdf)
-        .arg(&png_stem)
-        .status()
-        .unwrap();
-    assert!(status.success());
-    let png = resvg::tiny_skia::Pixmap::load_png(png_stem.with_extension("png")).unwrap();
+    let png = pdftoppm_page_1(&pdf, x_px, top_px, 1, rows);
     let dark: Vec<u32> = (0..png.height()).filter(|&y| png.pixel(0, y).unwrap().red() < 128).collect();
     let (first, last) = (dark.first().expect("dark pixels"), dark.last().unwrap());
     let span_mm = f64::from(last - first + 1) / px_per_mm;
@@ -485,7 +332,7 @@ fn a_setup_longer_than_the_page_tiles_into_the_hand_computed_page_count() {
     let out = build(&kit, &p, PDF_ONLY);
     for name in ["sheets.pdf", "keys.pdf"] {
         let doc = load(file(&out, name));
-        let ids = pages(&doc);
+        let ids = page_ids(&doc);
         assert_eq!(ids.len(), n, "{name}");
         // Never shrunk: every tile is a full A4 landscape page with a true 100 mm bar.
         for id in ids {
@@ -498,7 +345,7 @@ fn a_setup_longer_than_the_page_tiles_into_the_hand_computed_page_count() {
     }
     // Neighbouring tiles show the sheet frame shifted by the window less the overlap.
     let set = scenes(&kit, &plans, &p);
-    let offsets: Vec<f64> = set.sheets.pages.iter().map(|pg| group_offset(pg).x).collect();
+    let offsets: Vec<f64> = set.sheets.pages.iter().map(|pg| group(pg).0.x).collect();
     for pair in offsets.windows(2) {
         assert!(((pair[0] - pair[1]) - (w - o)).abs() < 1e-9, "tile offsets {offsets:?}");
     }

@@ -4,13 +4,18 @@
 
 use raysheet::build::{Output, build_plans};
 use raysheet::cli::Formats;
-use raysheet::geom::{Point, Vec2};
+use raysheet::geom::Point;
 use raysheet::kit::Kit;
-use raysheet::layout::{self, Templates, text_box};
-use raysheet::paper::{Orientation, PaperSize, PaperSpec};
+use raysheet::layout::{self, text_box};
+use raysheet::paper::{Orientation, PaperSpec};
 use raysheet::plan::{SheetPlan, plan_kit};
-use raysheet::scene::{Item, Page};
+use raysheet::scene::Item;
 use resvg::tiny_skia;
+
+mod common {
+    pub mod sheets;
+}
+use common::sheets::{build, file, fixture, group, paper, scenes};
 
 /// CSS Values and Units: 1 in = 96 px = 25.4 mm, so 1 mm = 96/25.4 px.
 const PX_PER_MM_CSS: f64 = 96.0 / 25.4;
@@ -21,20 +26,8 @@ const PX_PER_MM: f64 = 4.0;
 
 const SVG_ONLY: Formats = Formats { pdf: false, svg: true };
 
-fn fixture(name: &str) -> Kit {
-    let path = format!("{}/tests/fixtures/{name}", env!("CARGO_MANIFEST_DIR"));
-    let text = std::fs::read_to_string(&path).expect("fixture is readable");
-    Kit::from_toml(&text, name).unwrap_or_else(|e| panic!("fixture {name} is valid: {e}"))
-}
-
-fn a4(orientation: Orientation) -> PaperSpec {
-    PaperSpec { size: PaperSize::named("A4").unwrap(), orientation, margin_mm: 10.0 }
-}
-
 fn svg<'a>(outputs: &'a [Output], path: &str) -> &'a str {
-    let names: Vec<&str> = outputs.iter().map(|o| o.path.as_str()).collect();
-    let o = outputs.iter().find(|o| o.path == path).unwrap_or_else(|| panic!("no {path} among {names:?}"));
-    std::str::from_utf8(&o.bytes).expect("SVG is UTF-8")
+    std::str::from_utf8(file(outputs, path)).expect("SVG is UTF-8")
 }
 
 /// usvg with the repo's shipped faces, so text is never silently dropped (DESIGN.md).
@@ -62,8 +55,8 @@ fn a4_sheets_are_297_by_210_mm_landscape_and_210_by_297_mm_portrait() {
     // 297 mm = 1122.52 px; usvg reports the size in those px.
     for (orientation, w, h) in [(Orientation::Landscape, 297.0, 210.0), (Orientation::Portrait, 210.0, 297.0)]
     {
-        let p = a4(orientation);
-        let out = build_plans(&kit, &plan_kit(&kit, &p), &p, SVG_ONLY, None).unwrap();
+        let p = paper("A4", orientation);
+        let out = build(&kit, &p, SVG_ONLY);
         for name in ["svg/sheet-01.svg", "svg/key-01.svg"] {
             let text = svg(&out, name);
             assert_eq!(root_attr(text, "width"), format!("{w}mm"), "{orientation:?} {name}");
@@ -133,18 +126,6 @@ impl Raster {
     }
 }
 
-/// The setup drawing's offset and children on a page (src/layout/mod.rs,
-/// `pages_for`: the sheet frame sits in one `Item::Group`).
-fn group(page: &Page) -> (Vec2, &[Item]) {
-    page.items
-        .iter()
-        .find_map(|it| match it {
-            Item::Group { offset, items, .. } => Some((*offset, items.as_slice())),
-            _ => None,
-        })
-        .expect("the setup drawing is a group")
-}
-
 /// Distance from `p` to the segment `a`–`b`.
 fn seg_distance(p: Point, a: Point, b: Point) -> f64 {
     let (ab, ap) = (b - a, p - a);
@@ -179,7 +160,7 @@ fn clearance(items: &[Item], p: Point) -> f64 {
 
 fn plan_and_pages(kit: &Kit, p: &PaperSpec) -> (Vec<SheetPlan>, layout::SheetSet, Vec<Output>) {
     let plans = plan_kit(kit, p);
-    let set = layout::layout(&kit.title, &plans, p, &Templates::shipped().unwrap());
+    let set = scenes(kit, &plans, p);
     let out = build_plans(kit, &plans, p, SVG_ONLY, None).unwrap();
     (plans, set, out)
 }
@@ -187,7 +168,7 @@ fn plan_and_pages(kit: &Kit, p: &PaperSpec) -> (Vec<SheetPlan>, layout::SheetSet
 #[test]
 fn the_rendered_key_is_dark_where_the_rays_cross_and_light_away_from_them() {
     let kit = fixture("sheets_halfdisc.toml");
-    let p = a4(Orientation::Auto);
+    let p = paper("A4", Orientation::Auto);
     let (plans, set, out) = plan_and_pages(&kit, &p);
     let plan = &plans[0];
     assert_eq!(set.keys.pages.len(), 1, "the half-disc setup fits one page");
