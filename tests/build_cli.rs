@@ -292,3 +292,47 @@ fn assert_build_refused(kit: &str, word: &str) {
     assert!(text(&out.stderr).contains(word), "{kit}: {}", text(&out.stderr));
     assert!(!out_dir.exists(), "{kit}: the output folder was made");
 }
+
+/// `templates --out DIR` writes the four shipped files; an edited heading in
+/// one of them, given with `--templates DIR`, appears on the built sheet (read
+/// back from the SVG), and a broken template is an error naming its file and field.
+#[test]
+fn edited_templates_reach_the_sheets_and_bad_ones_are_located() {
+    let tmp = tempfile::tempdir().unwrap();
+    let tdir = tmp.path().join("text");
+    let t = tdir.to_str().unwrap();
+    let out = raysheet(&["templates", "--out", t], tmp.path());
+    assert_code(&out, 0);
+    for name in ["curved-face.toml", "focal.toml", "focal-diverging.toml", "common.toml"] {
+        assert!(tdir.join(name).is_file(), "{name} written");
+    }
+    // The files are raysheet's own (listed in its manifest), so a second run may replace them.
+    assert_code(&raysheet(&["templates", "--out", t], tmp.path()), 0);
+    let path = tdir.join("curved-face.toml");
+    let edited = std::fs::read_to_string(&path).unwrap().replace(
+        "heading = \"Refraction at a curved face\"",
+        "heading = \"Brechung an der gekrümmten Fläche\"",
+    );
+    std::fs::write(&path, edited).unwrap();
+    let dir = tmp.path().join("out");
+    let o = dir.to_str().unwrap();
+    let kit = fixture_path("sheets_halfdisc.toml");
+    assert_code(&raysheet(&["build", &kit, "--out", o, "--templates", t], tmp.path()), 0);
+    let svg = std::fs::read_to_string(dir.join("svg/sheet-01.svg")).unwrap();
+    assert!(svg.contains("Brechung an der gekrümmten Fläche: sheet 1"), "edited heading on the SVG");
+    // A template with three table columns instead of four.
+    std::fs::write(
+        tdir.join("focal.toml"),
+        "heading = \"x\"\ninstructions = []\ncolumns = [\"a\", \"b\", \"c\"]\n",
+    )
+    .unwrap();
+    let bad = raysheet(&["build", &kit, "--out", o, "--templates", t], tmp.path());
+    assert_code(&bad, 2);
+    assert!(text(&bad.stderr).contains("focal.toml: field `columns`"), "{}", text(&bad.stderr));
+    // A folder with none of the files is refused with the names it expects.
+    let empty = tmp.path().join("empty");
+    std::fs::create_dir(&empty).unwrap();
+    let none = raysheet(&["build", &kit, "--out", o, "--templates", empty.to_str().unwrap()], tmp.path());
+    assert_code(&none, 2);
+    assert!(text(&none.stderr).contains("curved-face.toml"), "{}", text(&none.stderr));
+}
