@@ -143,6 +143,11 @@ fn build(
     let text = templates(out)?;
     let (files, warnings) = match class_plan(kit, &paper, class)? {
         None => {
+            if class.seed.is_some() {
+                eprintln!(
+                    "raysheet: note: --seed only matters for class sets ([class] in the kit, or --roster)"
+                );
+            }
             let plans = plan::plan_kit(kit, &paper);
             let warnings: Vec<String> = plans
                 .iter()
