@@ -1,4 +1,53 @@
 //! raysheet: true-scale ray-optics tracing sheets and answer keys for acrylic lens kits.
+//!
+//! The pipeline is `kit → optics → plan → layout → scene → render`: a kit file
+//! is validated into millimetres, every guide ray is traced exactly with
+//! Snell's law, the plan picks heights and works out the answers, the layout
+//! places them on paper at 1:1 as a device-independent scene, and the
+//! renderers turn that scene into SVG or PDF bytes.
+//!
+//! From a kit string to a drawing:
+//!
+//! ```
+//! use raysheet::kit::Kit;
+//! use raysheet::layout::{layout, Templates};
+//! use raysheet::plan::plan_kit;
+//! use raysheet::render::render_svg_page;
+//!
+//! let kit = Kit::from_toml(
+//!     r#"
+//!     [materials.acrylic]
+//!     index = 1.49
+//!
+//!     [[pieces]]
+//!     id = "hd30"
+//!     material = "acrylic"
+//!     front = "flat"
+//!     back = { curve = "convex", radius_mm = 30 }
+//!     thickness_mm = 30
+//!     height_mm = 60
+//!
+//!     [[sheets]]
+//!     kind = "curved-face"
+//!     piece = "hd30"
+//!     heights_mm = [8, -8]
+//!     "#,
+//!     "example.toml",
+//! )?;
+//! let plans = plan_kit(&kit, &kit.paper);
+//! // Half-disc, flat face first: the ray at 8 mm meets the axis at
+//! // R·n·sinθ1 / sin(θ2 − θ1) from the flat face (DESIGN.md closed form).
+//! let (r, n, h): (f64, f64, f64) = (30.0, 1.49, 8.0);
+//! let (t1, t2) = ((h / r).asin(), (n * h / r).asin());
+//! let expected = r * n * t1.sin() / (t2 - t1).sin();
+//! let got = plans[0].rays[0].crossing_from_entry_mm.unwrap();
+//! assert!((got - expected).abs() < 1e-9);
+//!
+//! let set = layout(&kit.title, &plans, &kit.paper, &Templates::shipped()?);
+//! let svg = render_svg_page(&set.keys.pages[0], &set.keys.title)?;
+//! assert!(svg.starts_with("<svg") && svg.contains(r#"width="297mm""#));
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
 #![forbid(unsafe_code)]
 
 pub mod answers;
