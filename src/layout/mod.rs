@@ -263,13 +263,6 @@ fn header(
         Role::Student => "Student sheet",
         Role::Key => "ANSWER KEY (teacher's copy)",
     };
-    items.push(text(
-        Point::new(left, top - 5.0),
-        &format!("{heading}: sheet {}", p.number),
-        13.0,
-        Weight::Bold,
-        Anchor::Start,
-    ));
     let piece = match &p.piece_label {
         Some(l) => format!("{l} ({})", p.piece_id),
         None => p.piece_id.clone(),
@@ -288,14 +281,28 @@ fn header(
         Some(v) => format!("variant {v}"),
         None => format!("sheet {}", p.number),
     });
-    let wmax = lines.iter().map(|l| crate::font::text_width_mm(l, 10.0, Weight::Bold)).fold(0.0, f64::max);
+    // A long group name is set smaller so the box leaves room for the heading.
+    let widest = |size: f64| {
+        lines.iter().map(|l| crate::font::text_width_mm(l, size, Weight::Bold)).fold(0.0, f64::max)
+    };
+    let box_pt = if widest(10.0) > 0.35 * (right - left) { 8.0 } else { 10.0 };
+    let wmax = widest(box_pt);
     let bx = Rect { min: Point::new(right - wmax - 6.0, top - 12.5), max: Point::new(right, top) };
     items.push(Item::Box { rect: bx, fill: None, stroke: Some(Stroke::solid(0.4)) });
     let n = lines.len() as f64;
+    let step = box_pt * 0.46;
     for (i, l) in lines.iter().enumerate() {
-        let y = top - 6.25 + (n - 1.0) * 2.3 - i as f64 * 4.6 - 1.3;
-        items.push(text(Point::new(right - 3.0, y), l, 10.0, Weight::Bold, Anchor::End));
+        let y = top - 6.25 + (n - 1.0) * step / 2.0 - i as f64 * step - box_pt * 0.13;
+        items.push(text(Point::new(right - 3.0, y), l, box_pt, Weight::Bold, Anchor::End));
     }
+    // The heading at the largest size from 13 pt down to 9 pt that fits left of the box.
+    let heading_line = format!("{heading}: sheet {}", p.number);
+    let room = bx.min.x - 3.0 - left;
+    let heading_pt = [13.0, 12.0, 11.0, 10.0, 9.0]
+        .into_iter()
+        .find(|&pt| crate::font::text_width_mm(&heading_line, pt, Weight::Bold) <= room)
+        .unwrap_or(9.0);
+    items.push(text(Point::new(left, top - 5.0), &heading_line, heading_pt, Weight::Bold, Anchor::Start));
     // The subtitle fits left of the identity box: 8 pt, else two lines of 7 pt.
     let subtitle = format!(
         "{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}",
