@@ -37,10 +37,14 @@ pub fn pieces_table(kit: &Kit) -> String {
             opt(px.bfl_mm()),
         );
     }
-    let _ = writeln!(
-        s,
-        "  (BFL for light entering the front face; each sheet below gives the values for its own entry side)"
-    );
+    if kit.pieces.is_empty() {
+        let _ = writeln!(s, "  none yet: add [[pieces]] entries (see README.md for the fields)");
+    } else {
+        let _ = writeln!(
+            s,
+            "  (BFL for light entering the front face; each sheet below gives the values for its own entry side)"
+        );
+    }
     s
 }
 
