@@ -107,6 +107,11 @@ fn templates(out: &OutArgs) -> Result<Templates, Failure> {
     Templates::with_overrides(&found).map_err(Failure::Input)
 }
 
+/// Every plan's warnings, each prefixed with its sheet number.
+fn sheet_warnings(plans: &[plan::SheetPlan]) -> Vec<String> {
+    plans.iter().flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))).collect()
+}
+
 /// Default seed when neither the kit nor the command line gives one.
 const DEFAULT_SEED: u64 = 1;
 
@@ -149,20 +154,13 @@ fn build(
                 );
             }
             let plans = plan::plan_kit(kit, &paper);
-            let warnings: Vec<String> = plans
-                .iter()
-                .flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number)))
-                .collect();
+            let warnings = sheet_warnings(&plans);
             (raysheet::build::build_plans_with(kit, &plans, &paper, formats, class.seed, &text), warnings)
         }
         Some(cp) => {
             let mut warnings = cp.notes.clone();
             if let Some(first) = cp.plans.first() {
-                warnings.extend(
-                    first
-                        .iter()
-                        .flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))),
-                );
+                warnings.extend(sheet_warnings(first));
             }
             (raysheet::build::build_class_with(kit, &cp, &paper, formats, &text), warnings)
         }

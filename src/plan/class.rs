@@ -50,8 +50,9 @@ fn grid_values(lo: f64, hi: f64, grid: f64) -> Vec<f64> {
     (a..=b).map(|k| k as f64 * grid).collect()
 }
 
-/// Every allowed setting of a sheet, in a fixed order.
-fn settings(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec) -> Vec<Setting> {
+/// Every allowed setting of a sheet, in a fixed order. `band(entry)` is the
+/// sheet's safe band for that entry side, worked out once by the caller.
+fn settings(kit: &Kit, spec: &SheetSpec, band: &dyn Fn(Entry) -> Option<super::SafeBand>) -> Vec<Setting> {
     let piece = kit.pieces[spec.piece].piece;
     let grid = kit.class.grid_mm;
     let w = kit.ray_box.ray_width_mm;
@@ -64,9 +65,8 @@ fn settings(kit: &Kit, spec: &SheetSpec, paper: &PaperSpec) -> Vec<Setting> {
     let entries =
         if spec.vary_entry && !symmetric { vec![spec.entry, spec.entry.flipped()] } else { vec![spec.entry] };
     let mut out = Vec::new();
-    let _ = piece;
     for entry in entries {
-        let Some(band) = band_for(kit, spec, paper, entry) else { continue };
+        let Some(band) = band(entry) else { continue };
         match spec.kind {
             SheetKind::CurvedFace => {
                 // A symmetric pair ±low (rays at the same height on both sides
@@ -117,7 +117,9 @@ pub fn plan_class(kit: &Kit, paper: &PaperSpec, groups: Vec<Group>, seed: u64) -
     let mut notes = Vec::new();
     let mut plans: Vec<Vec<SheetPlan>> = vec![Vec::new(); groups.len()];
     for spec in &kit.sheets {
-        let mut options = settings(kit, spec, paper);
+        let bands = [band_for(kit, spec, paper, Entry::Front), band_for(kit, spec, paper, Entry::Back)];
+        let band = |e: Entry| bands[usize::from(e == Entry::Back)].clone();
+        let mut options = settings(kit, spec, &band);
         let mut rng = sheet_stream(seed, spec.number);
         let piece = kit.pieces[spec.piece].piece;
         if spec.vary_entry && piece.front() == piece.back() {
@@ -145,8 +147,6 @@ pub fn plan_class(kit: &Kit, paper: &PaperSpec, groups: Vec<Group>, seed: u64) -
             ));
         }
         shuffle(&mut rng, &mut options);
-        let bands = [band_for(kit, spec, paper, Entry::Front), band_for(kit, spec, paper, Entry::Back)];
-        let band = |e: Entry| bands[usize::from(e == Entry::Back)].clone();
         for (g, group) in groups.iter().enumerate() {
             let plan = match options.get(g % options.len().max(1)) {
                 Some(o) => plan_sheet_in_band(kit, spec, paper, o.entry, Some(&o.heights), band(o.entry)),
