@@ -3,7 +3,7 @@
 //! (PyPI, a general-purpose optical design library) via
 //! `tests/reference/make_reference.py`. Conventions: `tests/reference/README.md`.
 
-use raysheet::optics::{Entry, Face, Outcome, Outline, Paraxial, Piece, trace_parallel};
+use raysheet::optics::{Entry, Face, Lens as Piece, Outcome, Outline, Paraxial, trace_parallel};
 use serde_json::Value;
 
 mod common {

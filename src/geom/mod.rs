@@ -1,15 +1,20 @@
-//! Plane geometry underneath everything: points, vectors, rays, segments and circles.
+//! Plane geometry underneath everything: points, vectors, rays, segments,
+//! circles, closed shapes of line and arc edges, and rigid placements.
 //!
 //! Knows nothing of light or paper. Degenerate cases (parallel lines, a ray that
 //! misses) come back as `None`, never as NaN.
 
 mod circle;
+mod placement;
 mod point;
 mod segment;
+mod shape;
 
 pub use circle::{Arc, ray_circle_hits};
+pub use placement::Placement;
 pub use point::{Point, Vec2};
 pub use segment::Segment;
+pub use shape::{Edge, EdgePath, Hit, Shape, ShapeError};
 
 /// A half-line: an origin and a unit direction.
 #[derive(Clone, Copy, Debug, PartialEq)]

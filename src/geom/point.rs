@@ -78,6 +78,11 @@ impl Vec2 {
     pub fn angle_rad(self) -> f64 {
         self.y.atan2(self.x)
     }
+
+    /// The angle that turns `self` onto `o`, counterclockwise positive, in (−π, π].
+    pub fn signed_angle_to(self, o: Vec2) -> f64 {
+        self.cross(o).atan2(self.dot(o))
+    }
 }
 
 impl Add<Vec2> for Point {

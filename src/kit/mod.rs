@@ -16,7 +16,7 @@ use error::Locator;
 use raw::{RawKit, RawPiece, RawSheet, TABLE_FIELDS};
 use toml::Spanned;
 
-use crate::optics::{Entry, Face, Paraxial, Piece};
+use crate::optics::{Entry, Face, Lens as Piece, Paraxial};
 use crate::paper::{Orientation, PaperSize, PaperSpec};
 
 /// The ray box: parallel rays for focal-length sheets.
@@ -511,7 +511,9 @@ impl Validator<'_> {
                 ),
                 E::NegativeEdge { .. } | E::Thickness(_) => (p.thickness_mm.span(), f("thickness_mm")),
                 E::Height(_) => (p.height_mm.span(), f("height_mm")),
-                E::Index(_) => (p.material.span(), f("material")),
+                E::Size { what: "height", .. } => (p.height_mm.span(), f("height_mm")),
+                E::Size { .. } => (p.thickness_mm.span(), f("thickness_mm")),
+                E::Index(_) | E::Apex(_) => (p.material.span(), f("material")),
             };
             self.loc.error(span.start, field, e.problem(), e.advice())
         })?;

@@ -31,12 +31,13 @@ impl Face {
         !matches!(self, Face::Flat)
     }
 
-    /// Sagitta over half-height `a`: s = R − √(R² − a²) (0 for flat). Caller
-    /// guarantees `a ≤ R`.
+    /// Sagitta over half-height `a`: s = R − √(R² − a²) (0 for flat), computed
+    /// as a²/(R + √(R − a)·√(R + a)), which neither cancels nor overflows for
+    /// very large R. Caller guarantees `a ≤ R`.
     pub fn sagitta(self, a: f64) -> f64 {
         match self.radius_mm() {
             None => 0.0,
-            Some(r) => r - (r * r - a * a).max(0.0).sqrt(),
+            Some(r) => a * a / (r + (r - a).max(0.0).sqrt() * (r + a).sqrt()),
         }
     }
 

@@ -1,8 +1,8 @@
 //! The outline of a piece on the sheet, placed for one entry side: two faces
 //! and two straight edges, with exact ray intersection and surface normals.
 
-use super::{Entry, Face, Piece};
-use crate::geom::{Point, Ray, Segment, Vec2, ray_circle_hits};
+use super::{Entry, Face, Lens};
+use crate::geom::{Arc, Edge, EdgePath, Hit, Point, Ray, Segment, Shape};
 
 /// One part of the outline.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
@@ -17,24 +17,33 @@ pub enum Boundary {
     BottomEdge,
 }
 
-/// A piece placed in the sheet frame for one entry side.
-#[derive(Clone, Copy, Debug, PartialEq)]
+/// A lens shape placed in the sheet frame for one entry side.
+#[derive(Clone, Debug, PartialEq)]
 pub struct Outline {
     /// The piece.
-    pub piece: Piece,
+    pub piece: Lens,
     /// Which of the piece's faces the light meets first.
     pub entry: Entry,
     /// Entry face shape.
     pub entry_face: Face,
     /// Exit face shape.
     pub exit_face: Face,
+    /// The outline as a closed shape: entry face top to bottom, bottom edge,
+    /// exit face bottom to top, top edge (knife edges dropped).
+    shape: Shape<Boundary>,
 }
 
 impl Outline {
     /// Places `piece` with its `entry` face toward the light.
-    pub fn new(piece: Piece, entry: Entry) -> Outline {
+    pub fn new(piece: Lens, entry: Entry) -> Outline {
         let (entry_face, exit_face) = piece.faces_for(entry);
-        Outline { piece, entry, entry_face, exit_face }
+        let shape = build_shape(&piece, entry_face, exit_face);
+        Outline { piece, entry, entry_face, exit_face, shape }
+    }
+
+    /// The outline as a closed shape of line and arc edges.
+    pub fn shape(&self) -> &Shape<Boundary> {
+        &self.shape
     }
 
     /// Thickness on the axis (x of the exit vertex), mm.
@@ -111,48 +120,10 @@ impl Outline {
         (self.entry_x(0.0).min(self.entry_x(a)), self.exit_x(0.0).max(self.exit_x(a)))
     }
 
-    /// The nearest hit of `ray` with any boundary beyond `min_s`: (distance,
-    /// which boundary, point, unit normal). `None` when the ray misses the piece.
-    pub fn nearest_hit(&self, ray: &Ray, min_s: f64) -> Option<(f64, Boundary, Point, Vec2)> {
-        let mut best: Option<(f64, Boundary, Point, Vec2)> = None;
-        let mut consider = |s: f64, b: Boundary, n: Vec2| {
-            if best.is_none_or(|(bs, ..)| s < bs) {
-                best = Some((s, b, ray.at(s), n));
-            }
-        };
-        for b in [Boundary::Entry, Boundary::Exit] {
-            let vertex_x = if b == Boundary::Entry { 0.0 } else { self.t() };
-            match self.center(b) {
-                None => {
-                    let seg = Segment::new(Point::new(vertex_x, -self.a()), Point::new(vertex_x, self.a()));
-                    if let Some(s) = seg.ray_hit(ray, min_s) {
-                        consider(s, b, Vec2::new(1.0, 0.0));
-                    }
-                }
-                Some(c) => {
-                    let r = self.face(b).and_then(Face::radius_mm).unwrap_or(1.0);
-                    // The face is the branch of the circle on the vertex's side of the centre.
-                    let side = (vertex_x - c.x).signum();
-                    for s in ray_circle_hits(ray, c, r).into_iter().flatten() {
-                        if s <= min_s {
-                            continue;
-                        }
-                        let p = ray.at(s);
-                        if p.y.abs() <= self.a() + 1e-12 && (p.x - c.x) * side >= 0.0 {
-                            consider(s, b, (p - c) * (1.0 / r));
-                        }
-                    }
-                }
-            }
-        }
-        for b in [Boundary::TopEdge, Boundary::BottomEdge] {
-            if let Some(seg) = self.edge(b)
-                && let Some(s) = seg.ray_hit(ray, min_s)
-            {
-                consider(s, b, Vec2::new(0.0, 1.0));
-            }
-        }
-        best
+    /// The nearest hit of `ray` with any boundary beyond `min_s`; `None` when
+    /// the ray misses the piece.
+    pub fn nearest_hit(&self, ray: &Ray, min_s: f64) -> Option<Hit<Boundary>> {
+        self.shape.nearest_hit(ray, min_s)
     }
 
     /// Whether `p` lies strictly inside the glass.
@@ -169,4 +140,57 @@ impl Outline {
             Boundary::TopEdge | Boundary::BottomEdge => "edge",
         }
     }
+}
+
+/// The closed outline of `piece` entered through `entry_face`: entry face top
+/// to bottom, bottom edge, exit face bottom to top, top edge.
+fn build_shape(piece: &Lens, entry_face: Face, exit_face: Face) -> Shape<Boundary> {
+    let (t, a) = (piece.thickness_mm(), piece.half_height_mm());
+    let entry_x = |y: f64| entry_face.inset(y);
+    let exit_x = |y: f64| t - exit_face.inset(y);
+    let (et, xt, xb, eb) = (
+        Point::new(entry_x(a), a),
+        Point::new(exit_x(a), a),
+        Point::new(exit_x(-a), -a),
+        Point::new(entry_x(-a), -a),
+    );
+    let entry_center = match entry_face {
+        Face::Flat => None,
+        Face::Convex { radius_mm } => Some(Point::new(radius_mm, 0.0)),
+        Face::Concave { radius_mm } => Some(Point::new(-radius_mm, 0.0)),
+    };
+    let exit_center = match exit_face {
+        Face::Flat => None,
+        Face::Convex { radius_mm } => Some(Point::new(t - radius_mm, 0.0)),
+        Face::Concave { radius_mm } => Some(Point::new(t + radius_mm, 0.0)),
+    };
+    // An arc through the face's vertex: convex faces run counterclockwise,
+    // concave ones clockwise, sweeping 2·asin(a/R) either way.
+    let face = |b: Boundary, f: Face, center: Option<Point>, from: Point, to: Point| {
+        let path = match (center, f.radius_mm()) {
+            // A face whose sagitta is below a nanometre is drawn and traced as flat:
+            // an arc of such a radius cannot be placed to better than its own depth.
+            (Some(c), Some(r)) if f.sagitta(a) > 1e-9 => {
+                let half = (a / r).min(1.0).asin();
+                let sign = if matches!(f, Face::Convex { .. }) { 1.0 } else { -1.0 };
+                EdgePath::Arc(Arc {
+                    center: c,
+                    radius: r,
+                    start_rad: (from - c).angle_rad(),
+                    sweep_rad: sign * 2.0 * half,
+                })
+            }
+            _ => EdgePath::Line(Segment::new(from, to)),
+        };
+        Edge { path, face: b }
+    };
+    let line =
+        |b: Boundary, from: Point, to: Point| Edge { path: EdgePath::Line(Segment::new(from, to)), face: b };
+    let edges = vec![
+        face(Boundary::Entry, entry_face, entry_center, et, eb),
+        line(Boundary::BottomEdge, eb, xb),
+        face(Boundary::Exit, exit_face, exit_center, xb, xt),
+        line(Boundary::TopEdge, xt, et),
+    ];
+    Shape::new(edges).expect("a checked lens shape has a closed counterclockwise outline")
 }

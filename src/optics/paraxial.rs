@@ -1,7 +1,7 @@
 //! Paraxial values: lens maker's thin-lens focal length and the thick-lens
 //! focal lengths and principal planes, for one entry side.
 
-use super::{Entry, Piece};
+use super::{Entry, Lens as Piece};
 
 /// Paraxial (first-order) values of a piece in air for one entry side.
 ///

@@ -244,7 +244,7 @@ pub fn safe_band(outline: &Outline, rules: &BandRules) -> Option<SafeBand> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::optics::{Entry, Face, Piece};
+    use crate::optics::{Entry, Face, Lens as Piece};
 
     fn half_disc(r: f64) -> Outline {
         Outline::new(

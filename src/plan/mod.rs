@@ -16,7 +16,7 @@ pub use roster::{RosterError, parse_roster};
 
 use crate::geom::Point;
 use crate::kit::{Kit, SheetKind, SheetSpec};
-use crate::optics::{Entry, Outcome, Outline, Paraxial, Trace, trace_parallel};
+use crate::optics::{AxialTrace as Trace, Entry, Outcome, Outline, Paraxial, trace_parallel};
 use crate::paper::PaperSpec;
 
 /// Distances past the exit vertex at which students mark two points on each
