@@ -1,6 +1,7 @@
 //! The safe band of guide heights: where a single guide ray gives a
 //! measurement worth making, and why the band ends where it ends.
 
+use super::scan::{Scan, find_band};
 use crate::optics::{Boundary, Outcome, Outline, trace_parallel};
 
 /// Criteria for a worthwhile guide height (DESIGN.md, "Where the rays should go").
@@ -178,66 +179,31 @@ fn reason(limit: Limit, h: f64, lower: bool, outline: &Outline, rules: &BandRule
     }
 }
 
-/// Most heights [`safe_band`] scans: 0.05 mm steps up to a half-height of 1 m.
-const MAX_SCAN_STEPS: usize = 20_000;
-
-/// Finds the safe band: scans |h| from 0 to the half-height in 0.05 mm steps
-/// (coarser for pieces over 2 m tall, see [`MAX_SCAN_STEPS`]),
+/// Finds the safe band of guide heights with [`find_band`]: scans |h| from 0
+/// to the half-height in 0.05 mm steps (coarser for pieces over 2 m tall),
 /// takes the widest run of passing heights (preferring the one containing a
 /// third of the half-height, where teachers place single rays — common
 /// practice, no source), and refines both ends by bisection to 0.001 mm.
 /// `None` when no height passes.
 pub fn safe_band(outline: &Outline, rules: &BandRules) -> Option<SafeBand> {
     let a = outline.a();
-    // 0.05 mm steps, but never more than MAX_SCAN_STEPS of them: a kit may
-    // describe an absurdly large piece, which must not hang or exhaust memory.
-    let step = (a / MAX_SCAN_STEPS as f64).max(0.05);
-    let n = ((a / step).floor() as usize).min(MAX_SCAN_STEPS);
-    let ok: Vec<bool> = (0..=n).map(|i| check_height(outline, rules, i as f64 * step).is_none()).collect();
-    let mut runs: Vec<(usize, usize)> = Vec::new();
-    let mut i = 0;
-    while i <= n {
-        if ok[i] {
-            let start = i;
-            while i < n && ok[i + 1] {
-                i += 1;
-            }
-            runs.push((start, i));
-        }
-        i += 1;
-    }
-    let target = a / 3.0;
-    let (lo, hi) = runs.iter().copied().max_by(|&(s1, e1), &(s2, e2)| {
-        let c1 = (s1 as f64 * step..=e1 as f64 * step).contains(&target);
-        let c2 = (s2 as f64 * step..=e2 as f64 * step).contains(&target);
-        (c1, e1 - s1).cmp(&(c2, e2 - s2))
-    })?;
-    let refine = |mut good: f64, mut bad: f64| {
-        for _ in 0..40 {
-            let mid = 0.5 * (good + bad);
-            if check_height(outline, rules, mid).is_none() {
-                good = mid;
-            } else {
-                bad = mid;
-            }
-            if (good - bad).abs() < 1e-3 {
-                break;
-            }
-        }
-        (good, bad)
+    let scan = Scan {
+        from: 0.0,
+        to: a,
+        step: 0.05,
+        prefer: a / 3.0,
+        resolution: 1e-3,
+        at_from: Limit::NearAxis,
+        at_to: Limit::EdgeClearance,
     };
-    let (min, min_bad) = if lo == 0 { (0.0, 0.0) } else { refine(lo as f64 * step, (lo - 1) as f64 * step) };
-    let (max, max_bad) =
-        if hi == n { (hi as f64 * step, a) } else { refine(hi as f64 * step, (hi + 1) as f64 * step) };
-    let min_limit = check_height(outline, rules, min_bad).unwrap_or(Limit::NearAxis);
-    let max_limit = check_height(outline, rules, max_bad.min(a)).unwrap_or(Limit::EdgeClearance);
+    let b = find_band(&scan, |h| check_height(outline, rules, h))?;
     Some(SafeBand {
-        min_mm: min,
-        max_mm: max,
-        min_limit,
-        max_limit,
-        min_reason: reason(min_limit, min, true, outline, rules),
-        max_reason: reason(max_limit, max, false, outline, rules),
+        min_mm: b.min,
+        max_mm: b.max,
+        min_limit: b.min_limit,
+        max_limit: b.max_limit,
+        min_reason: reason(b.min_limit, b.min, true, outline, rules),
+        max_reason: reason(b.max_limit, b.max, false, outline, rules),
     })
 }
 

@@ -6,6 +6,7 @@ mod class;
 mod folders;
 mod groups;
 mod roster;
+pub mod scan;
 pub mod variants;
 
 pub use band::{BandRules, Limit, SafeBand, check_height, safe_band};
