@@ -64,4 +64,5 @@ pub mod plan;
 pub mod render;
 pub mod report;
 pub mod scene;
+pub mod sheets;
 pub mod summary;

@@ -1,0 +1,355 @@
+//! What block and prism sheets share: a single guide ray aimed at one point of
+//! the entry face at a signed angle of incidence, traced through the placed
+//! piece, with its angles, deviation, lateral shift and tolerances, and the
+//! safe band of angles.
+
+use crate::geom::{Point, Ray, Shape, Vec2};
+use crate::optics::measure::{self, NotDefined};
+use crate::optics::{End, EventKind, Trace, trace};
+use crate::plan::scan::{Band, Scan, find_band};
+
+/// The path a sheet expects the light to take.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Expected<F> {
+    /// In at the entry face, out by refraction at `exit`, no total reflection.
+    Refract {
+        /// The face the light should leave through.
+        exit: F,
+    },
+    /// In at the entry face, totally reflected at each face of `reflect_at` in
+    /// order, out through `exit` (a right-angle prism turning the light).
+    Turn {
+        /// The faces where the light must be totally reflected, in order.
+        reflect_at: Vec<F>,
+        /// The face it leaves through.
+        exit: F,
+    },
+}
+
+/// A placed piece with the point its guide rays are aimed at.
+#[derive(Clone, Debug, PartialEq)]
+pub struct AngledSetup<F> {
+    /// The piece's outline in the sheet frame.
+    pub shape: Shape<F>,
+    /// Index of refraction.
+    pub index: f64,
+    /// The face the light enters.
+    pub entry_face: F,
+    /// Where the guide rays meet the entry face.
+    pub entry_point: Point,
+    /// Unit normal of the entry face there, pointing out of the piece.
+    pub outward: Vec2,
+    /// +1 or −1: the sense of rotation (counterclockwise positive) that turns
+    /// the inward normal onto the direction of a ray with a positive angle of
+    /// incidence. Angles of refraction share it.
+    pub sense: f64,
+    /// Where on the piece "positive" sides point (the base of a prism); the
+    /// emergence angle and the deviation are positive toward it. `None`: they
+    /// take the sense of the angle of incidence (blocks).
+    pub toward: Option<Point>,
+    /// The path the sheet expects.
+    pub expected: Expected<F>,
+    /// Length of the printed guide line before the entry point, mm.
+    pub lead_mm: f64,
+    /// Length of the outgoing ray a student draws, mm (common practice, no source).
+    pub out_mm: f64,
+}
+
+/// Criteria for an angle worth printing (our choices, common practice, no source).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct AngleRules {
+    /// Width of one ray on paper, mm.
+    pub ray_width_mm: f64,
+    /// How far inside the critical angle a refracting ray must stay, degrees.
+    pub critical_margin_deg: f64,
+    /// How far past the critical angle a total reflection the sheet relies on must be, degrees.
+    pub reflection_margin_deg: f64,
+    /// Widest footprint of the ray on the entry face, in ray widths (w / cos i).
+    pub max_footprint_widths: f64,
+    /// Smallest ratio of a lateral shift to its tolerance.
+    pub min_shift_ratio: f64,
+    /// Half the finest division of a school protractor, degrees.
+    pub protractor_deg: f64,
+    /// Half the finest division of a ruler, mm.
+    pub ruler_mm: f64,
+}
+
+impl AngleRules {
+    /// Defaults for rays `ray_width_mm` wide: 4° from the critical angle for
+    /// refraction, 0.5° past it for a total reflection the sheet relies on (the
+    /// 180° turn of an acrylic right-angle prism holds only within about ±4° of
+    /// normal incidence, DESIGN.md), a footprint of at most three ray widths
+    /// (i ≤ 70.5°), a shift at least three times its tolerance, ±0.5° protractor
+    /// and ±0.5 mm ruler readings.
+    pub fn for_ray_width(ray_width_mm: f64) -> AngleRules {
+        AngleRules {
+            ray_width_mm,
+            critical_margin_deg: 4.0,
+            reflection_margin_deg: 0.5,
+            max_footprint_widths: 3.0,
+            min_shift_ratio: 3.0,
+            protractor_deg: 0.5,
+            ruler_mm: 0.5,
+        }
+    }
+
+    /// How far across the ray a student locates its centre, mm: half the ray
+    /// width, at least 1 mm (DESIGN.md, about ±1–2 mm, *memory*).
+    pub fn across_error_mm(&self) -> f64 {
+        (self.ray_width_mm / 2.0).max(1.0)
+    }
+
+    /// Accept range for an angle read from a drawn line `length_mm` long: the
+    /// protractor's half division plus the angle the line can swing when each
+    /// end is off by the across-ray error, atan(2e/L).
+    pub fn angle_tolerance_deg(&self, length_mm: f64) -> f64 {
+        self.protractor_deg + (2.0 * self.across_error_mm() / length_mm.max(1.0)).atan().to_degrees()
+    }
+}
+
+/// Why an angle of incidence is not in the safe band.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum AngleLimit {
+    /// The light does not take the path the sheet expects.
+    WrongPath,
+    /// Refraction within the critical-angle margin at the exit face.
+    CriticalMargin,
+    /// A total reflection the sheet relies on is too close to the critical angle.
+    ReflectionMargin,
+    /// Near-grazing incidence: the ray's footprint on the entry face is too long.
+    Grazing,
+    /// The ray leaves within a ray width of a corner of the piece.
+    NearCorner,
+    /// The lateral shift is too small against its tolerance.
+    SmallShift,
+    /// The end of the range of angles scanned.
+    RangeEnd,
+}
+
+/// One guide ray of an angle sheet and everything measured on it.
+#[derive(Clone, Debug, PartialEq)]
+pub struct AngledRay<F> {
+    /// The letter printed beside it.
+    pub letter: String,
+    /// Signed angle of incidence, degrees.
+    pub incidence_deg: f64,
+    /// The exact trace.
+    pub trace: Trace<F>,
+    /// Whether the light took the expected path (`None`), or how it went wrong.
+    pub path_ok: bool,
+    /// Signed angle of refraction inside, at the entry face, degrees.
+    pub refraction_deg: Result<f64, NotDefined>,
+    /// Signed angle of emergence at the face it leaves through, degrees.
+    pub emergence_deg: Result<f64, NotDefined>,
+    /// Deviation, degrees (signed as [`AngledSetup::toward`] says).
+    pub deviation_deg: Result<f64, NotDefined>,
+    /// Distance between the incoming and outgoing lines, mm (parallel only).
+    pub lateral_shift_mm: Result<f64, NotDefined>,
+    /// The face it leaves through and where.
+    pub exit: Result<(F, Point), NotDefined>,
+    /// Accept range for the angles read on this ray, ± degrees.
+    pub tolerance_deg: f64,
+    /// Accept range for the lateral shift, ± mm.
+    pub tolerance_mm: f64,
+    /// Whether the angle lies in the safe band.
+    pub in_band: bool,
+}
+
+impl<F: Copy + PartialEq> AngledSetup<F> {
+    /// Unit direction of a ray at signed incidence `i_deg`: the inward normal
+    /// turned by `sense · i`.
+    pub fn direction(&self, i_deg: f64) -> Vec2 {
+        Vec2::from_angle((-self.outward).angle_rad() + self.sense * i_deg.to_radians())
+    }
+
+    /// The guide ray at `i_deg`, starting `lead_mm` before the entry point.
+    pub fn guide(&self, i_deg: f64) -> Ray {
+        let d = self.direction(i_deg);
+        Ray { origin: self.entry_point - d * self.lead_mm, dir: d }
+    }
+
+    /// Sign that makes a rotation from `from` positive when it turns toward
+    /// [`AngledSetup::toward`] (or takes the incidence's sense).
+    fn toward_sense(&self, from_point: Point, from_dir: Vec2) -> f64 {
+        match self.toward {
+            Some(t) => {
+                let c = from_dir.cross(t - from_point);
+                if c >= 0.0 { 1.0 } else { -1.0 }
+            }
+            None => self.sense,
+        }
+    }
+
+    /// Whether a trace took the expected path.
+    pub fn took_expected_path(&self, tr: &Trace<F>) -> bool {
+        let ev = &tr.events;
+        let Some(first) = ev.first() else { return false };
+        if first.face != self.entry_face || first.kind != EventKind::Enter {
+            return false;
+        }
+        let (reflect_at, exit): (&[F], F) = match &self.expected {
+            Expected::Refract { exit } => (&[], *exit),
+            Expected::Turn { reflect_at, exit } => (reflect_at.as_slice(), *exit),
+        };
+        if ev.len() != reflect_at.len() + 2 {
+            return false;
+        }
+        let middle_ok = ev[1..ev.len() - 1]
+            .iter()
+            .zip(reflect_at)
+            .all(|(e, f)| e.face == *f && e.kind == EventKind::TotalReflection);
+        let last = ev[ev.len() - 1];
+        middle_ok && last.face == exit && last.kind == EventKind::Leave && matches!(tr.end, End::Left { .. })
+    }
+
+    /// Traces and measures the guide ray at `i_deg`.
+    pub fn answer(&self, rules: &AngleRules, i_deg: f64, letter: String, in_band: bool) -> AngledRay<F> {
+        let tr = trace(&self.shape, self.index, self.guide(i_deg));
+        let path_ok = self.took_expected_path(&tr);
+        let first = tr.events.first().copied();
+        let refraction_deg = match first {
+            Some(e) if e.face == self.entry_face && e.kind == EventKind::Enter => {
+                Ok(self.sense * (-self.outward).signed_angle_to(e.dir_out).to_degrees())
+            }
+            _ => Err(NotDefined::NotAtFace),
+        };
+        let last_leave = tr.events.iter().rev().find(|e| e.kind == EventKind::Leave).copied();
+        let emergence_deg = match (measure::exit_point(&tr), last_leave) {
+            (Ok(_), Some(e)) => {
+                let s = self.toward_sense(e.at, e.outward);
+                Ok(s * e.outward.signed_angle_to(e.dir_out).to_degrees())
+            }
+            (Err(w), _) => Err(w),
+            (Ok(_), None) => Err(NotDefined::Trapped),
+        };
+        let deviation_deg = measure::deviation_rad(&tr).map(|d| {
+            let s = self.toward_sense(self.entry_point, tr.incoming.dir);
+            match self.expected {
+                Expected::Turn { .. } => d.abs().to_degrees(),
+                Expected::Refract { .. } => s * d.to_degrees(),
+            }
+        });
+        let lateral_shift_mm = measure::lateral_shift_mm(&tr);
+        let exit = measure::exit_point(&tr);
+        // The angles are read on the shortest line a student draws for them:
+        // the ray inside the piece (entry to first event after it) or the
+        // outgoing ray.
+        let inside_len = match (tr.events.first(), tr.events.get(1)) {
+            (Some(a), Some(b)) => a.at.distance(b.at),
+            _ => self.out_mm,
+        };
+        let tolerance_deg = rules.angle_tolerance_deg(inside_len.min(self.out_mm));
+        let tolerance_mm = rules.across_error_mm() + rules.ruler_mm;
+        AngledRay {
+            letter,
+            incidence_deg: i_deg,
+            trace: tr,
+            path_ok,
+            refraction_deg,
+            emergence_deg,
+            deviation_deg,
+            lateral_shift_mm,
+            exit,
+            tolerance_deg,
+            tolerance_mm,
+            in_band,
+        }
+    }
+
+    /// The first criterion the angle `i_deg` fails, or `None` if it passes.
+    pub fn check(&self, rules: &AngleRules, i_deg: f64, need_shift: bool) -> Option<AngleLimit> {
+        let footprint = 1.0 / i_deg.to_radians().cos().max(1e-9);
+        if footprint > rules.max_footprint_widths {
+            return Some(AngleLimit::Grazing);
+        }
+        let tr = trace(&self.shape, self.index, self.guide(i_deg));
+        if !self.took_expected_path(&tr) {
+            return Some(AngleLimit::WrongPath);
+        }
+        let crit = (1.0 / self.index).asin().to_degrees();
+        for e in &tr.events[1..] {
+            let inc = e.incidence_rad.to_degrees();
+            // A face parallel to the entry face always lets the ray out (it meets it at
+            // the angle of refraction, below θc), so no margin is needed there.
+            let parallel_exit = e.outward.dot(self.outward) < -1.0 + 1e-12;
+            match e.kind {
+                EventKind::Leave if !parallel_exit && inc > crit - rules.critical_margin_deg => {
+                    return Some(AngleLimit::CriticalMargin);
+                }
+                EventKind::TotalReflection if inc < crit + rules.reflection_margin_deg => {
+                    return Some(AngleLimit::ReflectionMargin);
+                }
+                _ => {}
+            }
+        }
+        // Every event point keeps a ray width and a half from the piece's corners.
+        let clear = 1.5 * rules.ray_width_mm;
+        let corners: Vec<Point> = self.shape.edges().iter().map(|e| e.path.start()).collect();
+        if tr.events[1..].iter().any(|e| corners.iter().any(|c| c.distance(e.at) < clear)) {
+            return Some(AngleLimit::NearCorner);
+        }
+        if need_shift {
+            let shift = measure::lateral_shift_mm(&tr).unwrap_or(0.0);
+            let tol = rules.across_error_mm() + rules.ruler_mm;
+            if shift < rules.min_shift_ratio * tol {
+                return Some(AngleLimit::SmallShift);
+            }
+        }
+        None
+    }
+
+    /// The safe band of angles of incidence between `from` and `to` degrees,
+    /// scanned in 0.1° steps and refined to 0.01°, preferring the run that
+    /// contains `prefer`.
+    pub fn band(
+        &self,
+        rules: &AngleRules,
+        from: f64,
+        to: f64,
+        prefer: f64,
+        need_shift: bool,
+    ) -> Option<Band<AngleLimit>> {
+        let scan = Scan {
+            from,
+            to,
+            step: 0.1,
+            prefer,
+            resolution: 0.01,
+            at_from: AngleLimit::RangeEnd,
+            at_to: AngleLimit::RangeEnd,
+        };
+        find_band(&scan, |i| self.check(rules, i, need_shift))
+    }
+}
+
+/// Plain words for what ends a band at angle `at_deg`: `lower` for the low end.
+pub fn limit_words(limit: AngleLimit, at_deg: f64, lower: bool, rules: &AngleRules, crit_deg: f64) -> String {
+    let side = if lower { "below" } else { "above" };
+    let a = format!("{at_deg:.1}°");
+    match limit {
+        AngleLimit::WrongPath => {
+            format!("{side} {a} the light no longer takes the path the sheet measures")
+        }
+        AngleLimit::CriticalMargin => format!(
+            "{side} {a} the ray meets the far face within {}° of the critical angle ({crit_deg:.1}°)",
+            rules.critical_margin_deg
+        ),
+        AngleLimit::ReflectionMargin => format!(
+            "{side} {a} the total reflection the sheet relies on comes within {}° of the critical angle ({crit_deg:.1}°)",
+            rules.reflection_margin_deg
+        ),
+        AngleLimit::Grazing => format!(
+            "{side} {a} the ray meets the face so obliquely that its spot is over {} ray widths long",
+            rules.max_footprint_widths
+        ),
+        AngleLimit::NearCorner => {
+            format!("{side} {a} the ray passes within a ray width and a half of a corner of the piece")
+        }
+        AngleLimit::SmallShift => format!(
+            "{side} {a} the sideways shift is under {} times its ±{:.1} mm accept range",
+            rules.min_shift_ratio,
+            rules.across_error_mm() + rules.ruler_mm
+        ),
+        AngleLimit::RangeEnd => format!("the band reaches {a}, the end of the angles a sheet prints"),
+    }
+}
