@@ -4,14 +4,12 @@
 mod band;
 mod class;
 mod folders;
-mod groups;
 mod roster;
 pub mod variants;
 
 pub use band::{BandRules, Limit, SafeBand, check_height, safe_band};
 pub use class::{ClassPlan, Group, plan_class};
 pub use folders::{folder_names, slug};
-pub use groups::group_name_problem;
 pub use roster::{RosterError, parse_roster};
 
 use crate::geom::Point;
