@@ -4,12 +4,14 @@
 mod band;
 mod class;
 mod folders;
+mod letters;
 mod roster;
 pub mod variants;
 
 pub use band::{BandRules, Limit, SafeBand, check_height, safe_band};
 pub use class::{ClassPlan, Group, plan_class};
 pub use folders::{folder_names, slug};
+pub use letters::{RAY_LETTERS, ray_letters};
 pub use roster::{RosterError, parse_roster};
 
 use crate::geom::Point;
@@ -31,6 +33,9 @@ pub const TAIL_MM: f64 = 12.0;
 /// One traced guide ray with its answers.
 #[derive(Clone, Debug, PartialEq)]
 pub struct RayAnswer {
+    /// The ray's letter, printed beside it on the sheet and the key: A for the
+    /// highest ray, then down (see [`ray_letters`]).
+    pub letter: String,
     /// Guide height, mm (+ above the axis).
     pub height_mm: f64,
     /// The exact trace.
@@ -175,8 +180,15 @@ pub fn default_heights(kind: SheetKind, band: Option<&SafeBand>, kit: &Kit, a: f
     }
 }
 
-/// Traces one guide height and works out its answers.
-pub fn answer_ray(outline: &Outline, rules: &BandRules, band: Option<&SafeBand>, h: f64) -> RayAnswer {
+/// Traces one guide height and works out its answers; `letter` is its name on
+/// the sheet (from [`ray_letters`] over all of the sheet's heights).
+pub fn answer_ray(
+    outline: &Outline,
+    rules: &BandRules,
+    band: Option<&SafeBand>,
+    h: f64,
+    letter: String,
+) -> RayAnswer {
     let trace = trace_parallel(outline, h, 10.0);
     let t = outline.t();
     let x = trace.outcome.crossing_x();
@@ -198,6 +210,7 @@ pub fn answer_ray(outline: &Outline, rules: &BandRules, band: Option<&SafeBand>,
         _ => None,
     };
     RayAnswer {
+        letter,
         height_mm: h,
         crossing_from_entry_mm: x,
         crossing_from_exit_mm: x.map(|x| x - t),
@@ -246,8 +259,11 @@ pub fn plan_sheet_in_band(
         Some(h) => h.to_vec(),
         None => default_heights(spec.kind, band.as_ref(), kit, a),
     };
-    let rays: Vec<RayAnswer> =
-        heights.iter().map(|&h| answer_ray(&outline, &rules, band.as_ref(), h)).collect();
+    let rays: Vec<RayAnswer> = heights
+        .iter()
+        .zip(ray_letters(&heights))
+        .map(|(&h, letter)| answer_ray(&outline, &rules, band.as_ref(), h, letter))
+        .collect();
     let mut warnings = Vec::new();
     match &band {
         None => warnings.push(
