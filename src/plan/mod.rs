@@ -3,6 +3,7 @@
 
 mod band;
 mod class;
+mod curve;
 mod folders;
 mod letters;
 mod roster;
@@ -10,6 +11,7 @@ pub mod variants;
 
 pub use band::{BandRules, Limit, SafeBand, check_height, safe_band};
 pub use class::{ClassPlan, Group, plan_class};
+pub use curve::{CURVE_SAMPLES, CrossingCurve, CurvePoint, crossing_curve};
 pub use folders::{folder_names, slug};
 pub use letters::{RAY_LETTERS, ray_letters};
 pub use roster::{RosterError, parse_roster};
@@ -93,6 +95,8 @@ pub struct SheetPlan {
     pub band: Option<SafeBand>,
     /// The guide rays and their answers.
     pub rays: Vec<RayAnswer>,
+    /// Crossing against guide height, sampled for the key's plot.
+    pub crossing_curve: CrossingCurve,
     /// The rules used.
     pub rules: BandRules,
     /// Where things sit in the sheet frame.
@@ -345,6 +349,7 @@ pub fn plan_sheet_in_band(
             y_half = y_half.max(tb[1].y.abs() + 4.0);
         }
     }
+    let crossing_curve = crossing_curve(&outline, band.as_ref());
     SheetPlan {
         number: spec.number,
         kind: spec.kind,
@@ -355,6 +360,7 @@ pub fn plan_sheet_in_band(
         paraxial,
         band,
         rays,
+        crossing_curve,
         rules,
         setup: Setup { x_min, x_max, y_half },
         group: None,
