@@ -4,6 +4,7 @@ use std::path::PathBuf;
 
 use clap::{Args, Parser, Subcommand};
 
+use crate::output::Formats;
 use crate::paper::{Orientation, PaperSize, PaperSpec};
 
 /// raysheet: true-scale ray-optics tracing sheets and answer keys from a kit file.
@@ -110,15 +111,6 @@ pub struct ClassArgs {
     /// CSV file with a `name` column: one group per row.
     #[arg(long)]
     pub roster: Option<PathBuf>,
-}
-
-/// Output formats.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
-pub struct Formats {
-    /// Write PDFs.
-    pub pdf: bool,
-    /// Write SVGs.
-    pub svg: bool,
 }
 
 /// A usage problem with the flags (exit code 2).

@@ -50,8 +50,6 @@
 //! ```
 #![forbid(unsafe_code)]
 
-pub mod answers;
-pub mod build;
 pub mod cli;
 pub mod demo;
 pub mod font;
@@ -59,9 +57,8 @@ pub mod geom;
 pub mod kit;
 pub mod layout;
 pub mod optics;
+pub mod output;
 pub mod paper;
 pub mod plan;
 pub mod render;
-pub mod report;
 pub mod scene;
-pub mod summary;

@@ -11,7 +11,8 @@ use clap::Parser;
 use raysheet::cli::{ClassArgs, Cli, Command, OutArgs, PaperArgs, UsageError, parse_formats, resolve_paper};
 use raysheet::kit::{Groups, Kit};
 use raysheet::layout::{TEMPLATE_FILES, Templates, shipped_template};
-use raysheet::{answers, demo, plan, report};
+use raysheet::output::{answers, report};
+use raysheet::{demo, plan};
 use std::collections::BTreeMap;
 
 /// What went wrong, and which exit code it earns.
@@ -155,14 +156,14 @@ fn build(
             }
             let plans = plan::plan_kit(kit, &paper);
             let warnings = sheet_warnings(&plans);
-            (raysheet::build::build_plans_with(kit, &plans, &paper, formats, class.seed, &text), warnings)
+            (raysheet::output::build_plans_with(kit, &plans, &paper, formats, class.seed, &text), warnings)
         }
         Some(cp) => {
             let mut warnings = cp.notes.clone();
             if let Some(first) = cp.plans.first() {
                 warnings.extend(sheet_warnings(first));
             }
-            (raysheet::build::build_class_with(kit, &cp, &paper, formats, &text), warnings)
+            (raysheet::output::build_class_with(kit, &cp, &paper, formats, &text), warnings)
         }
     };
     let files = files.map_err(|e| Failure::Input(e.to_string()))?;
@@ -212,9 +213,9 @@ fn run(cli: Cli) -> Result<(), Failure> {
             build(&kit, &dir, &out, &paper, &class)
         }
         Command::Templates { out, force } => {
-            let files: Vec<raysheet::build::Output> = TEMPLATE_FILES
+            let files: Vec<raysheet::output::Output> = TEMPLATE_FILES
                 .iter()
-                .map(|n| raysheet::build::Output {
+                .map(|n| raysheet::output::Output {
                     path: n.to_string(),
                     bytes: shipped_template(n).unwrap_or_default().as_bytes().to_vec(),
                 })

@@ -6,15 +6,14 @@
 use std::collections::{BTreeMap, BTreeSet};
 use std::path::Path;
 
-use raysheet::answers::to_json;
-use raysheet::build::{Output, build_class};
-use raysheet::cli::Formats;
 use raysheet::kit::{Groups, Kit, MAX_GROUPS, SheetKind};
 use raysheet::layout::{self, Templates};
+use raysheet::output::answers::to_json;
+use raysheet::output::summary::summary_csv;
+use raysheet::output::{Formats, Output, build_class};
 use raysheet::paper::PaperSpec;
 use raysheet::plan::{ClassPlan, Group, SafeBand, folder_names, parse_roster, plan_class};
 use raysheet::scene::dump;
-use raysheet::summary::summary_csv;
 
 mod common {
     pub mod cli;

@@ -5,9 +5,8 @@
 //! outline's height is also measured in the pixels of a 300 dpi rendering.
 
 use lopdf::{Document, ObjectId};
-use raysheet::build::Output;
-use raysheet::cli::Formats;
 use raysheet::layout::{self, TILE_OVERLAP_MM};
+use raysheet::output::{Formats, Output};
 use raysheet::paper::Orientation;
 use raysheet::plan::plan_kit;
 
