@@ -50,7 +50,7 @@
 //! ```
 #![forbid(unsafe_code)]
 
-pub mod cli;
+pub mod app;
 pub mod demo;
 pub mod font;
 pub mod geom;
