@@ -4,7 +4,10 @@
 //! is validated into millimetres, every guide ray is traced exactly with
 //! Snell's law, the plan picks heights and works out the answers, the layout
 //! places them on paper at 1:1 as a device-independent scene, and the
-//! renderers turn that scene into SVG or PDF bytes.
+//! renderers turn that scene into SVG or PDF bytes. `output` gathers a build's
+//! files and the text reports; `app` resolves a command line into a job and
+//! runs it. Imports point one way, bottom first: geom, font, paper, optics,
+//! demo, kit, plan, scene, layout, render, output, app (`tests/layering.rs`).
 //!
 //! From a kit string to a drawing:
 //!
