@@ -39,7 +39,7 @@ fn fixture(name: &str) -> Kit {
     Kit::from_toml(&fixture_text(name), name).unwrap_or_else(|e| panic!("fixture {name} is valid: {e}"))
 }
 
-/// Groups as `main.rs` makes them: the kit's names (or `Group n`) with their folders.
+/// Groups as `app::job` makes them: the kit's names (or `Group n`) with their folders.
 fn kit_groups(kit: &Kit) -> Vec<Group> {
     let names: Vec<String> = match &kit.class.groups {
         Groups::Count(n) => (1..=*n).map(|i| format!("Group {i}")).collect(),
@@ -245,7 +245,7 @@ fn csv_rows(csv_text: &str) -> Vec<BTreeMap<String, String>> {
 }
 
 /// A CSV cell against a JSON number: both absent, or within 0.0005 mm (the
-/// CSV has three decimals, src/summary.rs).
+/// CSV has three decimals, src/output/summary.rs).
 fn agree(cell: &str, json: &serde_json::Value, what: &str) {
     match json.as_f64() {
         None => assert_eq!(cell, "", "{what}: JSON has none, CSV has {cell:?}"),
