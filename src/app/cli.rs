@@ -86,7 +86,7 @@ pub struct OutArgs {
     pub templates: Option<PathBuf>,
 }
 
-/// Paper options; each overrides the kit's [paper] table.
+/// Paper options; each overrides the kit's `[paper]` table.
 #[derive(Args, Debug, Default)]
 pub struct PaperArgs {
     /// Paper: A4, A3, Letter, Legal, Tabloid, or WIDTHxHEIGHT in mm (such as 250x350).
@@ -100,7 +100,7 @@ pub struct PaperArgs {
     pub margin: Option<f64>,
 }
 
-/// Class-set options; each overrides the kit's [class] table.
+/// Class-set options; each overrides the kit's `[class]` table.
 #[derive(Args, Debug, Default)]
 pub struct ClassArgs {
     /// Seed for the per-group variants.
