@@ -6,11 +6,10 @@
 use std::hint::black_box;
 
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
-use raysheet::build::{build_class, build_plans};
-use raysheet::cli::Formats;
 use raysheet::demo::DEMO_KIT;
 use raysheet::kit::Kit;
 use raysheet::optics::{Outline, trace_parallel};
+use raysheet::output::{Formats, build_class, build_plans};
 use raysheet::plan::{Group, folder_names, plan_class, plan_kit};
 
 fn demo() -> Kit {

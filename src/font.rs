@@ -4,7 +4,19 @@
 
 use std::sync::OnceLock;
 
-use crate::scene::{MM_PER_PT, Weight};
+/// Font weight: the two faces shipped in `fonts/`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub enum Weight {
+    /// DejaVu Sans.
+    Regular,
+    /// DejaVu Sans Bold.
+    Bold,
+}
+
+/// Millimetres per PDF point (ISO 32000-1: 1 pt = 1/72 in; 1 in = 25.4 mm).
+/// Text sizes are given in points; this is the one factor that turns them into
+/// the millimetres everything else uses.
+pub const MM_PER_PT: f64 = 25.4 / 72.0;
 
 static REGULAR: &[u8] = include_bytes!("../fonts/DejaVuSans.ttf");
 static BOLD: &[u8] = include_bytes!("../fonts/DejaVuSans-Bold.ttf");

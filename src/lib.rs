@@ -4,7 +4,10 @@
 //! is validated into millimetres, every guide ray is traced exactly with
 //! Snell's law, the plan picks heights and works out the answers, the layout
 //! places them on paper at 1:1 as a device-independent scene, and the
-//! renderers turn that scene into SVG or PDF bytes.
+//! renderers turn that scene into SVG or PDF bytes. `output` gathers a build's
+//! files and the text reports; `app` resolves a command line into a job and
+//! runs it. Imports point one way, bottom first: geom, font, paper, optics,
+//! demo, kit, plan, scene, layout, render, output, app (`tests/layering.rs`).
 //!
 //! From a kit string to a drawing:
 //!
@@ -50,19 +53,16 @@
 //! ```
 #![forbid(unsafe_code)]
 
-pub mod answers;
-pub mod build;
-pub mod cli;
+pub mod app;
 pub mod demo;
 pub mod font;
 pub mod geom;
 pub mod kit;
 pub mod layout;
 pub mod optics;
+pub mod output;
 pub mod paper;
 pub mod plan;
 pub mod render;
-pub mod report;
 pub mod scene;
 pub mod sheets;
-pub mod summary;

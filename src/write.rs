@@ -6,7 +6,7 @@ use std::fs;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-use raysheet::build::Output;
+use raysheet::output::Output;
 
 /// The list of files raysheet wrote into a folder, one relative path a line.
 pub const MANIFEST: &str = ".raysheet-files";

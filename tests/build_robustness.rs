@@ -3,9 +3,8 @@
 //! JSON, every SVG with usvg. A small budget keeps it quick.
 
 use proptest::prelude::*;
-use raysheet::build::build_plans;
-use raysheet::cli::Formats;
 use raysheet::kit::Kit;
+use raysheet::output::{Formats, build_plans};
 use raysheet::plan::plan_kit;
 
 fn face(kind: u8, r: f64) -> String {

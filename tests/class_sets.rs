@@ -6,15 +6,14 @@
 use std::collections::{BTreeMap, BTreeSet};
 use std::path::Path;
 
-use raysheet::answers::to_json;
-use raysheet::build::{Output, build_class};
-use raysheet::cli::Formats;
 use raysheet::kit::{Groups, Kit, MAX_GROUPS, SheetKind};
 use raysheet::layout::{self, Templates};
+use raysheet::output::answers::to_json;
+use raysheet::output::summary::summary_csv;
+use raysheet::output::{Formats, Output, build_class};
 use raysheet::paper::PaperSpec;
 use raysheet::plan::{ClassPlan, Group, SafeBand, folder_names, parse_roster, plan_class};
 use raysheet::scene::dump;
-use raysheet::summary::summary_csv;
 
 mod common {
     pub mod cli;
@@ -40,7 +39,7 @@ fn fixture(name: &str) -> Kit {
     Kit::from_toml(&fixture_text(name), name).unwrap_or_else(|e| panic!("fixture {name} is valid: {e}"))
 }
 
-/// Groups as `main.rs` makes them: the kit's names (or `Group n`) with their folders.
+/// Groups as `app::job` makes them: the kit's names (or `Group n`) with their folders.
 fn kit_groups(kit: &Kit) -> Vec<Group> {
     let names: Vec<String> = match &kit.class.groups {
         Groups::Count(n) => (1..=*n).map(|i| format!("Group {i}")).collect(),
@@ -246,7 +245,7 @@ fn csv_rows(csv_text: &str) -> Vec<BTreeMap<String, String>> {
 }
 
 /// A CSV cell against a JSON number: both absent, or within 0.0005 mm (the
-/// CSV has three decimals, src/summary.rs).
+/// CSV has three decimals, src/output/summary.rs).
 fn agree(cell: &str, json: &serde_json::Value, what: &str) {
     match json.as_f64() {
         None => assert_eq!(cell, "", "{what}: JSON has none, CSV has {cell:?}"),
@@ -282,8 +281,10 @@ fn check_summary_against_answers(csv_text: &str, json_text: &str) {
             .as_array()
             .unwrap()
             .iter()
-            .find(|r| (r["height_mm"].as_f64().unwrap() - h).abs() <= 0.0005)
-            .unwrap_or_else(|| panic!("{key}: no ray at {h} mm"));
+            .find(|r| r["ray"] == row["ray"].as_str())
+            .unwrap_or_else(|| panic!("{key}: no ray {} in answers.json", row["ray"]));
+        agree(&row["height_mm"], &ray["height_mm"], &format!("{key} height of ray {}", row["ray"]));
+        assert!((ray["height_mm"].as_f64().unwrap() - h).abs() <= 0.0005, "{key}");
         assert_eq!(row["outcome"], ray["outcome"].as_str().unwrap(), "{key}");
         assert_eq!(row["kind"], sheet["kind"].as_str().unwrap(), "{key}");
         assert_eq!(row["enter"], sheet["enter"].as_str().unwrap(), "{key}");
@@ -382,6 +383,31 @@ fn hostile_roster_names_give_safe_folders_or_located_errors() {
         assert_safe_folder(f, n);
     }
     assert_eq!(folders.iter().collect::<BTreeSet<_>>().len(), folders.len(), "{folders:?}");
+}
+
+#[test]
+fn every_ray_in_the_answer_file_carries_the_letter_printed_beside_it() {
+    let kit = fixture("class_trio.toml");
+    let paper = kit.paper.clone();
+    let cp = plan_class(&kit, &paper, kit_groups(&kit), 17);
+    let flat: Vec<_> = cp.plans.iter().flatten().cloned().collect();
+    let json: serde_json::Value = serde_json::from_str(&to_json(&kit.title, Some(17), &flat)).unwrap();
+    let templates = Templates::shipped().unwrap();
+    let mut seen = 0;
+    for (plans, sheets) in cp.plans.iter().zip(json["sheets"].as_array().unwrap().chunks(kit.sheets.len())) {
+        let set = layout::layout(&kit.title, plans, &paper, &templates);
+        for (page, sheet) in set.sheets.pages.iter().zip(sheets) {
+            let text = dump(&raysheet::scene::Scene { title: String::new(), pages: vec![page.clone()] });
+            for ray in sheet["rays"].as_array().unwrap() {
+                let (letter, h) = (ray["ray"].as_str().unwrap(), ray["height_mm"].as_f64().unwrap());
+                // The guide line's label on the student sheet: letter and signed height.
+                let label = format!("{letter} {}", layout::signed(h));
+                assert!(text.contains(&format!("{label:?}")), "{label} not on {}", page.name);
+                seen += 1;
+            }
+        }
+    }
+    assert!(seen >= 6, "only {seen} rays checked");
 }
 
 #[test]

@@ -182,6 +182,12 @@ fn solve_json_has_the_fixed_fields() {
         assert!(band["max_reason"].as_str().is_some_and(|r| r.starts_with("above ")), "{band}");
         let rays = s["rays"].as_array().expect("`rays` is a list");
         assert!(!rays.is_empty());
+        // Every ray carries its printed letter: A for the highest, then down.
+        let mut lettered: Vec<(f64, &str)> =
+            rays.iter().map(|r| (num(r, "height_mm"), r["ray"].as_str().expect("`ray` is text"))).collect();
+        lettered.sort_by(|a, b| b.0.total_cmp(&a.0));
+        let letters: String = lettered.iter().map(|(_, l)| *l).collect();
+        assert_eq!(letters, "ABCDEFGHJK"[..rays.len()], "letters top down in {s}");
         for r in rays {
             assert!(r["height_mm"].is_f64(), "{r}");
             let outcome = r["outcome"].as_str().expect("outcome is text");

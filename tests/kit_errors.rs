@@ -11,7 +11,8 @@
 
 use proptest::prelude::*;
 use raysheet::kit::{Kit, KitError};
-use raysheet::{answers, demo, plan};
+use raysheet::output::answers;
+use raysheet::{demo, plan};
 
 const FILE: &str = "bench.toml";
 

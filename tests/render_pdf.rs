@@ -13,11 +13,13 @@ use raysheet::scene::{Anchor, Item, Page, Scene, Stroke, Weight};
 mod common {
     pub mod pdfread;
     pub mod scene;
+    pub mod tools;
 }
 use common::pdfread::{
     PT_PER_MM, Seg, Visit, deref, dict, have_pdftoppm, load, media_box, page_ids, pdftoppm_page_1, walk,
 };
 use common::scene::{ARC_CENTER, ARC_RADIUS, LINE_50_START, LINE_100_START, test_scene, text};
+use common::tools::{decide, means_ci};
 
 /// What the content stream draws, in device space (points on the page).
 #[derive(Debug, Default)]
@@ -310,7 +312,27 @@ fn text_is_extractable_through_to_unicode() {
     }
 }
 
-/// Renders page 1 at 300 dpi with poppler's `pdftoppm` (skipped when absent)
+/// The rule for tests that need an outside program: run when it is there,
+/// skip with a note when it is not, fail when it is not and CI is set.
+#[test]
+fn a_missing_tool_fails_under_ci_and_skips_only_outside_it() {
+    assert_eq!(decide("pdftoppm", "poppler-utils", true, true), Ok(None));
+    assert_eq!(decide("pdftoppm", "poppler-utils", true, false), Ok(None));
+    let skip = decide("rsvg-convert", "librsvg2-bin", false, false).unwrap().unwrap();
+    assert!(skip.contains("rsvg-convert is not installed (librsvg2-bin); skipping"), "{skip}");
+    let fail = decide("pdftoppm", "poppler-utils", false, true).unwrap_err();
+    assert!(fail.contains("pdftoppm is not installed (poppler-utils), and CI is set"), "{fail}");
+    // CI services set CI=true; an empty, 0 or false value is no CI run.
+    for ci in ["true", "1", "yes", "TRUE"] {
+        assert!(means_ci(Some(ci)), "CI={ci}");
+    }
+    for not_ci in [None, Some(""), Some("0"), Some("false"), Some("False")] {
+        assert!(!means_ci(not_ci), "CI={not_ci:?}");
+    }
+}
+
+/// Renders page 1 at 300 dpi with poppler's `pdftoppm` (skipped when absent
+/// outside CI, failed when absent under CI)
 /// and checks the 100 mm line's pixels.
 #[test]
 fn pdftoppm_at_300_dpi_shows_the_100_mm_line_at_true_size() {

@@ -7,12 +7,14 @@
 )]
 
 mod error;
+mod group_name;
 mod raw;
 
 use std::collections::BTreeMap;
 
 pub use error::KitError;
 use error::Locator;
+pub use group_name::{MAX_NAME_CHARS, group_name_problem};
 use raw::{RawKit, RawPiece, RawSheet, TABLE_FIELDS};
 use toml::Spanned;
 
@@ -783,7 +785,7 @@ impl Validator<'_> {
                 let mut out: Vec<String> = Vec::new();
                 for (j, n) in names.get_ref().iter().enumerate() {
                     let name = n.get_ref().trim().to_string();
-                    if let Some(msg) = crate::plan::group_name_problem(&name) {
+                    if let Some(msg) = group_name_problem(&name) {
                         return self.err(
                             n.span(),
                             format!("class.names[{}]", j + 1),

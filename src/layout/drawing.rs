@@ -23,19 +23,6 @@ pub const LABEL_PT: f64 = 7.5;
 const AXIS_DASH: Dash = Dash::DashDot { long_mm: 6.0, short_mm: 1.0, gap_mm: 1.2 };
 const LINE_DASH: Dash = Dash::Dashed { on_mm: 2.5, off_mm: 1.5 };
 
-/// Letters for guide rays, top to bottom.
-pub fn ray_letter(i: usize) -> String {
-    const L: &[u8] = b"ABCDEFGHJK";
-    (L[i % L.len()] as char).to_string()
-}
-
-/// Rays in top-to-bottom order (the letters follow this order).
-pub fn rays_top_down(plan: &SheetPlan) -> Vec<usize> {
-    let mut idx: Vec<usize> = (0..plan.rays.len()).collect();
-    idx.sort_by(|&a, &b| plan.rays[b].height_mm.total_cmp(&plan.rays[a].height_mm));
-    idx
-}
-
 fn face_arc(outline: &Outline, b: Boundary, from: Point, to: Point) -> Option<OutlinePart> {
     let c = outline.center(b)?;
     let arc = Arc::short_way(c, from, to)?;
@@ -148,8 +135,8 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
         gray: 0.0,
     });
     // Guide lines.
-    for (k, &i) in rays_top_down(plan).iter().enumerate() {
-        let h = plan.rays[i].height_mm;
+    for r in plan.rays_top_down() {
+        let h = r.height_mm;
         let start = Point::new(bx1 + 1.0, h);
         let end = Point::new(o.entry_x(h) - 1.0, h);
         d.items.push(line(start, end, Stroke::solid(GUIDE_W)));
@@ -162,7 +149,7 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
             width_mm: 1.8,
             gray: 0.0,
         });
-        let label = format!("{} {}", ray_letter(k), signed(h));
+        let label = format!("{} {}", r.letter, signed(h));
         place_label(
             &mut d,
             &bounds,
@@ -212,10 +199,8 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
     let s = plan.setup;
     let o = &plan.outline;
     let ray_stroke = Stroke::solid(RAY_W).gray(0.25);
-    let order = rays_top_down(plan);
     let mut marks: Vec<(f64, Vec<String>, bool)> = Vec::new();
-    for (k, &i) in order.iter().enumerate() {
-        let r = &plan.rays[i];
+    for r in plan.rays_top_down() {
         let tr = &r.trace;
         let mut pts: Vec<Point> = tr.path.iter().skip(1).copied().collect();
         // Start where the guide line ends, so the key overlays the sheet cleanly.
@@ -252,7 +237,7 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
                     size_mm: 1.6,
                     stroke: Stroke::solid(THIN_W),
                 });
-                let lbl = format!("{}{}", ray_letter(k), j + 1);
+                let lbl = format!("{}{}", r.letter, j + 1);
                 let up = if r.height_mm >= 0.0 { 1.2 } else { -3.4 };
                 let mut d2 = Drawing { items: Vec::new(), placer: std::mem::take(&mut base.placer) };
                 place_label(
@@ -270,7 +255,7 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
             }
         }
         if let Some(x) = r.crossing_from_entry_mm {
-            let letter = ray_letter(k);
+            let letter = r.letter.clone();
             match marks.iter_mut().find(|(mx, _, _)| (mx - x).abs() < 0.05) {
                 Some(m) => m.1.push(letter),
                 None => marks.push((x, vec![letter], matches!(tr.outcome, Outcome::Virtual { .. }))),

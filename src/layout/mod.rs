@@ -10,7 +10,7 @@ mod summary;
 mod templates;
 mod text;
 
-pub use drawing::{ray_letter, rays_top_down, signed};
+pub use drawing::signed;
 pub use summary::summary_scene;
 pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_template};
 pub use text::{text_box, wrap};
@@ -425,7 +425,7 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
         y -= lead;
     }
     // The measurement table.
-    let order = rays_top_down(p);
+    let order = p.rays_top_down();
     let rows = order.len() + 1;
     let avail = y - r.min.y - 1.0;
     let row_h = (avail / rows as f64).clamp(3.6, 6.0);
@@ -462,10 +462,9 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
         }
         out.push(text(Point::new(xs[j] + 1.0, cell(0)), &label, tsize, Weight::Bold, Anchor::Start));
     }
-    for (k, &i) in order.iter().enumerate() {
-        let ray = &p.rays[i];
+    for (k, ray) in order.into_iter().enumerate() {
         let yy = cell(k + 1);
-        out.push(text(Point::new(xs[0] + 1.0, yy), &ray_letter(k), tsize, Weight::Regular, Anchor::Start));
+        out.push(text(Point::new(xs[0] + 1.0, yy), &ray.letter, tsize, Weight::Regular, Anchor::Start));
         out.push(text(
             Point::new(xs[1] + 1.0, yy),
             &signed(ray.height_mm),

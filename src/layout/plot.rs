@@ -1,9 +1,8 @@
 //! The key's small plot of crossing position against guide height
-//! (spherical aberration), from the exact trace.
+//! (spherical aberration): draws the curve the plan sampled from the exact trace.
 
 use super::text::text;
 use crate::geom::Point;
-use crate::optics::{Outcome, trace_parallel};
 use crate::plan::SheetPlan;
 use crate::scene::{Anchor, Dash, Item, MarkerShape, Rect, Stroke, Weight};
 
@@ -28,18 +27,15 @@ fn nice_step(span: f64, n: f64) -> f64 {
 /// from the exit vertex (negative for virtual crossings, plotted as their size).
 pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
     let mut items = Vec::new();
-    let o = &plan.outline;
     // The same reference as the sheet's table: the flat face or the exit face.
     let (t, ref_words) = plan.measure_from();
-    let top_h = plan.band.as_ref().map(|b| b.max_mm).unwrap_or(o.a() * 0.6).min(o.a());
-    let n = 48;
-    let mut pts: Vec<(f64, f64)> = Vec::new();
-    for k in 1..=n {
-        let h = top_h * f64::from(k) / f64::from(n);
-        if let Outcome::Crosses { x_mm } | Outcome::Virtual { x_mm } = trace_parallel(o, h, 10.0).outcome {
-            pts.push((h, (x_mm - t).abs()));
-        }
-    }
+    let top_h = plan.crossing_curve.top_height_mm;
+    let pts: Vec<(f64, f64)> = plan
+        .crossing_curve
+        .points
+        .iter()
+        .map(|p| (p.height_mm, (p.crossing_from_entry_mm - t).abs()))
+        .collect();
     let parax = plan.paraxial.rear_focus_x().map(|f| (f - t).abs());
     if pts.is_empty() {
         return items;

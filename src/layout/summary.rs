@@ -2,7 +2,7 @@
 //! guide heights, predicted crossings with tolerances and focal lengths.
 
 use super::text::text;
-use super::{ray_letter, rays_top_down, regions, signed};
+use super::{regions, signed};
 use crate::geom::Point;
 use crate::paper::PaperSpec;
 use crate::plan::ClassPlan;
@@ -35,8 +35,7 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
     let mut rows: Vec<[String; 9]> = Vec::new();
     for plans in &class.plans {
         for p in plans {
-            for (k, &i) in rays_top_down(p).iter().enumerate() {
-                let r = &p.rays[i];
+            for (k, r) in p.rays_top_down().into_iter().enumerate() {
                 let first = k == 0;
                 let (ref_x, ref_words) = p.measure_from();
                 let tol = match (r.graded, r.tolerance_mm) {
@@ -62,7 +61,7 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
                     if first { p.variant.clone().unwrap_or_default() } else { String::new() },
                     if first { p.number.to_string() } else { String::new() },
                     if first { format!("{}, {}", p.piece_id, p.entry.as_str()) } else { String::new() },
-                    ray_letter(k),
+                    r.letter.clone(),
                     signed(r.height_mm),
                     crossing,
                     if first {

@@ -3,16 +3,18 @@
 
 mod band;
 mod class;
+mod curve;
 mod folders;
-mod groups;
+mod letters;
 mod roster;
 pub mod scan;
 pub mod variants;
 
 pub use band::{BandRules, Limit, SafeBand, check_height, safe_band};
 pub use class::{ClassPlan, Group, plan_class};
+pub use curve::{CURVE_SAMPLES, CrossingCurve, CurvePoint, crossing_curve};
 pub use folders::{folder_names, slug};
-pub use groups::group_name_problem;
+pub use letters::{RAY_LETTERS, ray_letters};
 pub use roster::{RosterError, parse_roster};
 
 use crate::geom::Point;
@@ -34,6 +36,9 @@ pub const TAIL_MM: f64 = 12.0;
 /// One traced guide ray with its answers.
 #[derive(Clone, Debug, PartialEq)]
 pub struct RayAnswer {
+    /// The ray's letter, printed beside it on the sheet and the key: A for the
+    /// highest ray, then down (see [`ray_letters`]).
+    pub letter: String,
     /// Guide height, mm (+ above the axis).
     pub height_mm: f64,
     /// The exact trace.
@@ -91,6 +96,8 @@ pub struct SheetPlan {
     pub band: Option<SafeBand>,
     /// The guide rays and their answers.
     pub rays: Vec<RayAnswer>,
+    /// Crossing against guide height, sampled for the key's plot.
+    pub crossing_curve: CrossingCurve,
     /// The rules used.
     pub rules: BandRules,
     /// Where things sit in the sheet frame.
@@ -178,8 +185,15 @@ pub fn default_heights(kind: SheetKind, band: Option<&SafeBand>, kit: &Kit, a: f
     }
 }
 
-/// Traces one guide height and works out its answers.
-pub fn answer_ray(outline: &Outline, rules: &BandRules, band: Option<&SafeBand>, h: f64) -> RayAnswer {
+/// Traces one guide height and works out its answers; `letter` is its name on
+/// the sheet (from [`ray_letters`] over all of the sheet's heights).
+pub fn answer_ray(
+    outline: &Outline,
+    rules: &BandRules,
+    band: Option<&SafeBand>,
+    h: f64,
+    letter: String,
+) -> RayAnswer {
     let trace = trace_parallel(outline, h, 10.0);
     let t = outline.t();
     let x = trace.outcome.crossing_x();
@@ -201,6 +215,7 @@ pub fn answer_ray(outline: &Outline, rules: &BandRules, band: Option<&SafeBand>,
         _ => None,
     };
     RayAnswer {
+        letter,
         height_mm: h,
         crossing_from_entry_mm: x,
         crossing_from_exit_mm: x.map(|x| x - t),
@@ -249,8 +264,11 @@ pub fn plan_sheet_in_band(
         Some(h) => h.to_vec(),
         None => default_heights(spec.kind, band.as_ref(), kit, a),
     };
-    let rays: Vec<RayAnswer> =
-        heights.iter().map(|&h| answer_ray(&outline, &rules, band.as_ref(), h)).collect();
+    let rays: Vec<RayAnswer> = heights
+        .iter()
+        .zip(ray_letters(&heights))
+        .map(|(&h, letter)| answer_ray(&outline, &rules, band.as_ref(), h, letter))
+        .collect();
     let mut warnings = Vec::new();
     match &band {
         None => warnings.push(
@@ -332,6 +350,7 @@ pub fn plan_sheet_in_band(
             y_half = y_half.max(tb[1].y.abs() + 4.0);
         }
     }
+    let crossing_curve = crossing_curve(&outline, band.as_ref());
     SheetPlan {
         number: spec.number,
         kind: spec.kind,
@@ -342,6 +361,7 @@ pub fn plan_sheet_in_band(
         paraxial,
         band,
         rays,
+        crossing_curve,
         rules,
         setup: Setup { x_min, x_max, y_half },
         group: None,

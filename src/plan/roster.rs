@@ -1,7 +1,6 @@
 //! Reading a roster: a UTF-8 CSV with a `name` column, one group per row.
 
-use super::group_name_problem;
-use crate::kit::MAX_GROUPS;
+use crate::kit::{MAX_GROUPS, group_name_problem};
 
 /// A problem in a roster file, located.
 #[derive(Clone, Debug, PartialEq)]

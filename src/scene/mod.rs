@@ -11,6 +11,10 @@ pub use dump::dump;
 
 use crate::geom::{Point, Vec2};
 
+// Text in a scene names its face and its size in points; both belong to the
+// text layer (`font`) and are re-exported here for the scene's users.
+pub use crate::font::{MM_PER_PT, Weight};
+
 /// A whole document: one or more pages of the same kind (student sheets, keys…).
 #[derive(Clone, Debug, PartialEq, Default)]
 pub struct Scene {
@@ -96,15 +100,6 @@ pub enum Anchor {
     Middle,
     /// The reference point is the right end of the baseline.
     End,
-}
-
-/// Font weight: the two faces shipped in `fonts/`.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
-pub enum Weight {
-    /// DejaVu Sans.
-    Regular,
-    /// DejaVu Sans Bold.
-    Bold,
 }
 
 /// Shapes of point markers.
@@ -287,6 +282,3 @@ pub enum OutlinePart {
         to: Point,
     },
 }
-
-/// Millimetres per PDF point (ISO 32000-1: 1 pt = 1/72 in; 1 in = 25.4 mm).
-pub const MM_PER_PT: f64 = 25.4 / 72.0;

@@ -1,10 +1,9 @@
 //! Sheet sets built in-process from the kits in `tests/fixtures/`.
 
-use raysheet::build::{Output, build_plans};
-use raysheet::cli::Formats;
 use raysheet::geom::Vec2;
 use raysheet::kit::Kit;
 use raysheet::layout::{self, Templates};
+use raysheet::output::{Formats, Output, build_plans};
 use raysheet::paper::{Orientation, PaperSize, PaperSpec};
 use raysheet::plan::{SheetPlan, plan_kit};
 use raysheet::scene::{Item, Page};

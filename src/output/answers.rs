@@ -31,7 +31,7 @@ struct SheetAnswers<'a> {
     index: f64,
     paraxial: ParaxialOut,
     safe_band_mm: Option<BandOut<'a>>,
-    rays: Vec<RayOut>,
+    rays: Vec<RayOut<'a>>,
     warnings: &'a [String],
 }
 
@@ -54,7 +54,8 @@ struct BandOut<'a> {
 }
 
 #[derive(Serialize)]
-struct RayOut {
+struct RayOut<'a> {
+    ray: &'a str,
     height_mm: f64,
     outcome: &'static str,
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -103,6 +104,7 @@ pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> Strin
                 .rays
                 .iter()
                 .map(|r| RayOut {
+                    ray: &r.letter,
                     height_mm: r.height_mm + 0.0,
                     outcome: r.trace.outcome.as_str(),
                     crossing_from_entry_mm: z(r.crossing_from_entry_mm),

@@ -1,4 +1,5 @@
-//! Groups of a class set: names and their checks.
+//! Whether a class-set group name can be printed on a sheet: the one check
+//! shared by the kit's `[class] names` and a `--roster` file.
 
 /// Longest group name printed on a sheet, characters.
 pub const MAX_NAME_CHARS: usize = 40;

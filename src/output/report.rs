@@ -93,13 +93,14 @@ pub fn sheet_table(p: &SheetPlan) -> String {
     }
     let _ = writeln!(
         s,
-        "  {:>9}  {:<26} {:>12} {:>11} {:>9} {:>8}  exit face",
-        "height mm", "outcome", "from entry", "from exit", "angle °", "± mm"
+        "  {:<3}  {:>9}  {:<26} {:>12} {:>11} {:>9} {:>8}  exit face",
+        "ray", "height mm", "outcome", "from entry", "from exit", "angle °", "± mm"
     );
     for r in &p.rays {
         let _ = writeln!(
             s,
-            "  {:>9}  {:<26} {:>12} {:>11} {:>9} {:>8}  {}",
+            "  {:<3}  {:>9}  {:<26} {:>12} {:>11} {:>9} {:>8}  {}",
+            r.letter,
             fmt_mm(r.height_mm),
             r.trace.outcome.as_str(),
             opt(r.crossing_from_entry_mm),
@@ -111,8 +112,8 @@ pub fn sheet_table(p: &SheetPlan) -> String {
         if let Some([a, b]) = r.trace_back {
             let _ = writeln!(
                 s,
-                "  {:>9}  trace-back points ({:.1}, {:.1}) and ({:.1}, {:.1}) mm from the entry vertex",
-                "", a.x, a.y, b.x, b.y
+                "  {:<3}  {:>9}  trace-back points ({:.1}, {:.1}) and ({:.1}, {:.1}) mm from the entry vertex",
+                "", "", a.x, a.y, b.x, b.y
             );
         }
     }

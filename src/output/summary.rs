@@ -37,8 +37,7 @@ pub fn summary_csv(class: &ClassPlan) -> String {
     s.push('\n');
     for plans in &class.plans {
         for p in plans {
-            for (k, &i) in crate::layout::rays_top_down(p).iter().enumerate() {
-                let r = &p.rays[i];
+            for r in p.rays_top_down() {
                 let row = [
                     field(p.group.as_deref().unwrap_or("")),
                     field(p.variant.as_deref().unwrap_or("")),
@@ -46,7 +45,7 @@ pub fn summary_csv(class: &ClassPlan) -> String {
                     p.kind.as_str().to_string(),
                     field(&p.piece_id),
                     p.entry.as_str().to_string(),
-                    crate::layout::ray_letter(k),
+                    field(&r.letter),
                     format!("{:.3}", r.height_mm + 0.0),
                     r.trace.outcome.as_str().to_string(),
                     num(r.crossing_from_entry_mm),

@@ -1,14 +1,23 @@
 //! A whole build as values: every output file's relative path and bytes.
 //! Writing them to disk (atomically, without clobbering) is `main.rs`'s job.
 
-use crate::answers;
-use crate::cli::Formats;
+use super::{answers, summary};
 use crate::kit::Kit;
 use crate::layout::{self, Templates};
 use crate::paper::PaperSpec;
 use crate::plan::{ClassPlan, SheetPlan};
 use crate::render::{RenderError, render_pdf, render_svg_page};
 use crate::scene::Scene;
+
+/// Which kinds of file a build writes besides the answer file (and, for a
+/// class set, the summary CSV).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+pub struct Formats {
+    /// Write PDFs.
+    pub pdf: bool,
+    /// Write SVGs.
+    pub svg: bool,
+}
 
 /// One file of a build.
 #[derive(Clone, Debug, PartialEq)]
@@ -188,7 +197,7 @@ pub fn build_class_with(
         let summary = layout::summary_scene(&kit.title, class, paper);
         out.push(Output { path: "summary.pdf".into(), bytes: render_pdf(&summary)? });
     }
-    out.push(Output { path: "summary.csv".into(), bytes: crate::summary::summary_csv(class).into_bytes() });
+    out.push(Output { path: "summary.csv".into(), bytes: summary::summary_csv(class).into_bytes() });
     let flat: Vec<SheetPlan> = class.plans.iter().flatten().cloned().collect();
     out.push(Output {
         path: "answers.json".into(),

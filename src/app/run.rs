@@ -1,0 +1,238 @@
+//! Running a resolved [`Job`]: the plans, reports and built files as values.
+//! `main.rs` prints the text and writes the files.
+
+use std::path::PathBuf;
+
+use super::Failure;
+use super::job::{BuildJob, ClassSetup, Job};
+use crate::demo;
+use crate::kit::Kit;
+use crate::layout::{TEMPLATE_FILES, shipped_template};
+use crate::output::{Output, answers, build_class_with, build_plans_with, report};
+use crate::paper::PaperSpec;
+use crate::plan::{self, ClassPlan, SheetPlan};
+
+/// What a job hands back to `main.rs`.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Outcome {
+    /// Text for standard output.
+    Print(String),
+    /// Files to write into a folder.
+    Write(Writing),
+}
+
+/// What was written, for the closing message.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum Written {
+    /// Sheets, keys and answers.
+    Build,
+    /// The shipped sheet text.
+    Templates,
+}
+
+/// Files to write into a folder, and what to say once they are written.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Writing {
+    /// The folder.
+    pub dir: PathBuf,
+    /// The files, with paths relative to `dir`.
+    pub files: Vec<Output>,
+    /// Overwrite files there that raysheet did not write.
+    pub force: bool,
+    /// Warnings for the teacher, shown once the files are written.
+    pub warnings: Vec<String>,
+    what: Written,
+}
+
+impl Writing {
+    /// The message after writing: the files written (`written`, as the writer
+    /// reports them), SVGs counted rather than listed, and the printing advice.
+    pub fn report(&self, written: &[PathBuf]) -> String {
+        let dir = self.dir.display();
+        let mut s = String::new();
+        match self.what {
+            Written::Build => {
+                let is_svg = |p: &&PathBuf| p.to_string_lossy().contains("/svg/");
+                s.push_str(&format!("Wrote {} files to {dir}:\n", written.len()));
+                for w in written.iter().filter(|p| !is_svg(p)) {
+                    s.push_str(&format!("  {}\n", w.display()));
+                }
+                let svgs = written.iter().filter(is_svg).count();
+                if svgs > 0 {
+                    s.push_str(&format!("  and {svgs} SVG files in svg/ folders\n"));
+                }
+                s.push_str("Print at actual size (100 %) and check both scale bars before the lesson.\n");
+            }
+            Written::Templates => {
+                s.push_str(&format!("Wrote {} template files to {dir}:\n", written.len()));
+                for w in written {
+                    s.push_str(&format!("  {}\n", w.display()));
+                }
+                s.push_str(&format!("Edit them, then build with --templates {dir}\n"));
+            }
+        }
+        s
+    }
+}
+
+/// Does the work of `job`.
+pub fn run(job: Job) -> Result<Outcome, Failure> {
+    match job {
+        Job::Check { kit, paper, class } => Ok(Outcome::Print(check(&kit, &paper, class))),
+        Job::Solve { kit, paper, class, seed_flag, json } => {
+            Ok(Outcome::Print(solve(&kit, &paper, class, seed_flag, json)))
+        }
+        Job::Build(b) => build(*b).map(Outcome::Write),
+        Job::WriteTemplates { dir, force } => Ok(Outcome::Write(Writing {
+            dir,
+            files: template_files(),
+            force,
+            warnings: Vec::new(),
+            what: Written::Templates,
+        })),
+        Job::PrintDemoKit => Ok(Outcome::Print(demo::DEMO_KIT.to_string())),
+    }
+}
+
+fn class_plan(kit: &Kit, paper: &PaperSpec, class: ClassSetup) -> ClassPlan {
+    plan::plan_class(kit, paper, class.groups, class.seed)
+}
+
+/// The `check` report, and the class set's notes when the kit has one.
+fn check(kit: &Kit, paper: &PaperSpec, class: Option<ClassSetup>) -> String {
+    let plans = plan::plan_kit(kit, paper);
+    let mut s = report::check_report(kit, &plans);
+    if let Some(cp) = class.map(|c| class_plan(kit, paper, c)) {
+        s.push_str(&format!("\nClass set: {} groups, seed {}\n", cp.groups.len(), cp.seed));
+        for n in &cp.notes {
+            s.push_str(&format!("  note: {n}\n"));
+        }
+        if cp.notes.is_empty() {
+            s.push_str("  every sheet has room for a different setting per group\n");
+        }
+    }
+    s
+}
+
+/// The answers as the answer file (JSON) or as text tables.
+fn solve(
+    kit: &Kit,
+    paper: &PaperSpec,
+    class: Option<ClassSetup>,
+    seed_flag: Option<u64>,
+    json: bool,
+) -> String {
+    let (plans, notes, seed) = match class.map(|c| class_plan(kit, paper, c)) {
+        None => (plan::plan_kit(kit, paper), Vec::new(), seed_flag),
+        Some(cp) => (cp.plans.into_iter().flatten().collect(), cp.notes, Some(cp.seed)),
+    };
+    if json {
+        return answers::to_json(&kit.title, seed, &plans);
+    }
+    let mut out = format!("{}\n", kit.title);
+    for n in &notes {
+        out.push_str(&format!("note: {n}\n"));
+    }
+    for p in &plans {
+        out.push('\n');
+        out.push_str(&report::sheet_table(p));
+    }
+    out
+}
+
+/// Every plan's warnings, each prefixed with its sheet number.
+fn sheet_warnings(plans: &[SheetPlan]) -> Vec<String> {
+    plans.iter().flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))).collect()
+}
+
+/// Plans and builds every file of a build; warnings once per sheet (a class
+/// set's sheets share their warnings, so the first group's stand for all).
+fn build(job: BuildJob) -> Result<Writing, Failure> {
+    let BuildJob { kit, dir, force, formats, paper, templates, class, seed_flag } = job;
+    let (files, warnings) = match class.map(|c| class_plan(&kit, &paper, c)) {
+        None => {
+            let plans = plan::plan_kit(&kit, &paper);
+            let warnings = sheet_warnings(&plans);
+            (build_plans_with(&kit, &plans, &paper, formats, seed_flag, &templates), warnings)
+        }
+        Some(cp) => {
+            let mut warnings = cp.notes.clone();
+            if let Some(first) = cp.plans.first() {
+                warnings.extend(sheet_warnings(first));
+            }
+            (build_class_with(&kit, &cp, &paper, formats, &templates), warnings)
+        }
+    };
+    let files = files.map_err(|e| Failure::Input(e.to_string()))?;
+    Ok(Writing { dir, files, force, warnings, what: Written::Build })
+}
+
+/// The shipped sheet text, one file per template.
+fn template_files() -> Vec<Output> {
+    TEMPLATE_FILES
+        .iter()
+        .map(|n| Output {
+            path: n.to_string(),
+            bytes: shipped_template(n).unwrap_or_default().as_bytes().to_vec(),
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::app::cli::{Cli, Command};
+    use crate::app::job::{Inputs, Source};
+    use clap::Parser;
+
+    fn resolve(args: &[&str], kit: Option<&str>) -> Job {
+        let command: Command =
+            Cli::try_parse_from(std::iter::once("raysheet").chain(args.iter().copied())).unwrap().command;
+        let kit = kit.map(|t| Source { path: "k.toml".into(), content: Ok(t.as_bytes().to_vec()) });
+        Job::resolve(command, Inputs { kit, ..Inputs::default() }).unwrap()
+    }
+
+    #[test]
+    fn build_report_lists_files_and_counts_svgs() {
+        let Ok(Outcome::Write(w)) = run(resolve(&["demo", "--out", "d", "--format", "pdf"], None)) else {
+            panic!("a demo build writes files")
+        };
+        let paths: Vec<&str> = w.files.iter().map(|f| f.path.as_str()).collect();
+        assert_eq!(paths, ["sheets.pdf", "keys.pdf", "answers.json"]);
+        let written: Vec<PathBuf> =
+            ["d/sheets.pdf", "d/svg/sheet-01.svg", "d/svg/key-01.svg"].iter().map(PathBuf::from).collect();
+        assert_eq!(
+            w.report(&written),
+            "Wrote 3 files to d:\n  d/sheets.pdf\n  and 2 SVG files in svg/ folders\n\
+             Print at actual size (100 %) and check both scale bars before the lesson.\n"
+        );
+    }
+
+    #[test]
+    fn templates_writes_every_shipped_file() {
+        let Ok(Outcome::Write(w)) = run(resolve(&["templates", "--out", "t"], None)) else {
+            panic!("templates writes files")
+        };
+        assert_eq!(w.files.len(), TEMPLATE_FILES.len());
+        assert!(w.files.iter().all(|f| !f.bytes.is_empty()));
+        let report = w.report(&[PathBuf::from("t/common.toml")]);
+        assert!(report.ends_with("Edit them, then build with --templates t\n"), "{report}");
+    }
+
+    #[test]
+    fn solve_prints_the_table_or_the_answer_file() {
+        let Ok(Outcome::Print(table)) = run(resolve(&["solve", "k.toml"], Some(demo::DEMO_KIT))) else {
+            panic!("solve prints")
+        };
+        let kit = Kit::from_toml(demo::DEMO_KIT, "k.toml").unwrap();
+        assert!(table.starts_with(&format!("{}\n\nSheet 1: ", kit.title)), "{table}");
+        let Ok(Outcome::Print(json)) =
+            run(resolve(&["solve", "k.toml", "--json", "--seed", "5"], Some(demo::DEMO_KIT)))
+        else {
+            panic!("solve prints")
+        };
+        let v: serde_json::Value = serde_json::from_str(&json).unwrap();
+        assert_eq!(v["seed"], 5);
+        assert_eq!(v["sheets"].as_array().unwrap().len(), kit.sheets.len());
+    }
+}

@@ -1,0 +1,11 @@
+//! What a run hands back, as values: the answer file (JSON), the class summary
+//! (CSV), the `check`/`solve` text tables, and a whole build as a list of files.
+
+pub mod answers;
+pub mod build;
+pub mod report;
+pub mod summary;
+
+pub use build::{
+    BuildError, Formats, MAX_PAGES, Output, build_class, build_class_with, build_plans, build_plans_with,
+};
