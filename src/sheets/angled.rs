@@ -353,3 +353,114 @@ pub fn limit_words(limit: AngleLimit, at_deg: f64, lower: bool, rules: &AngleRul
         AngleLimit::RangeEnd => format!("the band reaches {a}, the end of the angles a sheet prints"),
     }
 }
+
+/// Everything an angle sheet (block or prism) shows: the placed piece, the
+/// rules, the safe band with its reasons, the guide rays and, for prisms, the
+/// traced deviation against the angle of incidence.
+#[derive(Clone, Debug, PartialEq)]
+pub struct AngledPlan<F> {
+    /// The placed piece and where its rays go in.
+    pub setup: AngledSetup<F>,
+    /// The criteria used.
+    pub rules: AngleRules,
+    /// The safe band of angles of incidence, degrees (`None`: no angle qualifies).
+    pub band: Option<Band<AngleLimit>>,
+    /// Plain words for why the band ends where it ends (low end, high end).
+    pub band_words: Option<(String, String)>,
+    /// The guide rays, lettered A, B, C… in order of increasing angle.
+    pub rays: Vec<AngledRay<F>>,
+    /// (angle of incidence, deviation) in degrees, traced every 0.5° where the
+    /// light takes the expected path: the curve the key plots.
+    pub deviation_curve: Vec<(f64, f64)>,
+}
+
+/// The range of angles a sheet scans for its band, degrees.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct AngleRange {
+    /// Lowest angle.
+    pub from: f64,
+    /// Highest angle.
+    pub to: f64,
+    /// Angle the band should preferably contain.
+    pub prefer: f64,
+    /// Whether the lateral shift must be measurable (blocks).
+    pub need_shift: bool,
+}
+
+impl<F: Copy + PartialEq> AngledPlan<F> {
+    /// Works out the band in `range`, then traces the guide rays at `angles`
+    /// (or, with `None`, at the angles `choose` picks from the band).
+    pub fn new(
+        setup: AngledSetup<F>,
+        rules: AngleRules,
+        range: AngleRange,
+        angles: Option<&[f64]>,
+        choose: impl Fn(Option<&Band<AngleLimit>>) -> Vec<f64>,
+    ) -> AngledPlan<F> {
+        let band = setup.band(&rules, range.from, range.to, range.prefer, range.need_shift);
+        AngledPlan::in_band(setup, rules, band, angles, choose)
+    }
+
+    /// [`AngledPlan::new`] with the band already worked out (class sets reuse it).
+    pub fn in_band(
+        setup: AngledSetup<F>,
+        rules: AngleRules,
+        band: Option<Band<AngleLimit>>,
+        angles: Option<&[f64]>,
+        choose: impl Fn(Option<&Band<AngleLimit>>) -> Vec<f64>,
+    ) -> AngledPlan<F> {
+        let crit = (1.0 / setup.index).asin().to_degrees();
+        let band_words = band.as_ref().map(|b| {
+            (
+                limit_words(b.min_limit, b.min, true, &rules, crit),
+                limit_words(b.max_limit, b.max, false, &rules, crit),
+            )
+        });
+        let mut list: Vec<f64> = match angles {
+            Some(a) => a.to_vec(),
+            None => choose(band.as_ref()),
+        };
+        list.sort_by(f64::total_cmp);
+        let rays = list
+            .iter()
+            .enumerate()
+            .map(|(k, &i)| {
+                let letter = char::from(crate::plan::RAY_LETTERS[k % crate::plan::RAY_LETTERS.len()]);
+                let in_band = band.as_ref().is_some_and(|b| b.contains(i));
+                setup.answer(&rules, i, letter.to_string(), in_band)
+            })
+            .collect();
+        let deviation_curve = match setup.expected {
+            Expected::Refract { .. } => (0..=356)
+                .map(|k| -89.0 + 0.5 * f64::from(k))
+                .filter_map(|i| {
+                    let r = setup.answer(&rules, i, String::new(), false);
+                    if !r.path_ok {
+                        return None;
+                    }
+                    r.deviation_deg.ok().map(|d| (i, d))
+                })
+                .collect(),
+            Expected::Turn { .. } => Vec::new(),
+        };
+        AngledPlan { setup, rules, band, band_words, rays, deviation_curve }
+    }
+}
+
+/// Angles on a `step`-degree grid inside `band`, picked to spread across it:
+/// the grid values nearest to the given fractions of the band's width,
+/// without repeats. Empty without a band.
+pub fn spread_in_band(band: Option<&Band<AngleLimit>>, fractions: &[f64], step: f64) -> Vec<f64> {
+    let Some(b) = band else { return Vec::new() };
+    let grid = crate::plan::scan::grid_values(b.min, b.max, step);
+    let mut out: Vec<f64> = Vec::new();
+    for f in fractions {
+        let target = b.min + f * b.width();
+        if let Some(v) = grid.iter().copied().min_by(|x, y| (x - target).abs().total_cmp(&(y - target).abs()))
+            && !out.iter().any(|o| (o - v).abs() < 1e-9)
+        {
+            out.push(v);
+        }
+    }
+    out
+}
