@@ -1,25 +1,34 @@
-//! Benchmarks: whole-piece traces per second on the demo pieces, the demo
-//! build (all sheets and keys, PDF and SVG) and a 30-group class set.
+//! Benchmarks: whole-piece traces per second on the (frozen) demo pieces, the
+//! demo build (all sheets and keys, PDF and SVG) and a 30-group class set.
 //!
 //! Run: `cargo bench` (figures go in README.md).
 
 use std::hint::black_box;
 
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
-use raysheet::demo::DEMO_KIT;
-use raysheet::kit::Kit;
-use raysheet::optics::{Outline, trace_parallel};
+use raysheet::optics::{Entry, Outline, trace_parallel};
 use raysheet::output::{Formats, build_class, build_plans};
-use raysheet::plan::{Group, folder_names, plan_class, plan_kit};
+use raysheet::plan::{Group, folder_names};
+use raysheet::sheets::{Enter, Lesson, plan_class, plan_lesson};
 
-fn demo() -> Kit {
-    Kit::from_toml(DEMO_KIT, "demo").expect("demo kit is valid")
+/// The demo kit as it stood when the benchmark figures were first taken
+/// (four lens sheets), frozen so figures stay comparable as the demo grows.
+const BENCH_KIT: &str = include_str!("fixtures/lens-demo.toml");
+
+fn demo() -> Lesson {
+    Lesson::from_toml(BENCH_KIT, "lens-demo.toml").expect("the bench kit is valid")
 }
 
 fn traces(c: &mut Criterion) {
     let kit = demo();
-    let outlines: Vec<Outline> =
-        kit.sheets.iter().map(|s| Outline::new(kit.pieces[s.piece].piece, s.entry)).collect();
+    let outlines: Vec<Outline> = kit
+        .sheets
+        .iter()
+        .filter_map(|s| {
+            let entry = if s.enter == Enter::Back { Entry::Back } else { Entry::Front };
+            kit.pieces[s.piece].piece.lens().map(|l| Outline::new(*l, entry))
+        })
+        .collect();
     // 100 heights across each piece's middle 80 %.
     let heights: Vec<f64> = (0..100).map(|i| -0.4 + 0.8 * f64::from(i) / 99.0).collect();
     let per_iter = (outlines.len() * heights.len()) as u64;
@@ -48,7 +57,7 @@ fn builds(c: &mut Criterion) {
     g.sample_size(10);
     g.bench_function("demo kit, sheets and keys, pdf+svg", |b| {
         b.iter(|| {
-            let plans = plan_kit(&kit, &kit.paper);
+            let plans = plan_lesson(&kit, &kit.paper);
             black_box(build_plans(&kit, &plans, &kit.paper, both, None).expect("build"))
         })
     });
@@ -63,7 +72,7 @@ fn builds(c: &mut Criterion) {
         .collect();
     g.bench_function("30-sheet set, sheets and keys, pdf+svg", |b| {
         b.iter(|| {
-            let plans = plan_kit(&kit30, &kit30.paper);
+            let plans = plan_lesson(&kit30, &kit30.paper);
             black_box(build_plans(&kit30, &plans, &kit30.paper, both, None).expect("build"))
         })
     });

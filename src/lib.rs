@@ -55,6 +55,7 @@
 
 pub mod app;
 pub mod demo;
+pub mod draw;
 pub mod font;
 pub mod geom;
 pub mod kit;

@@ -3,9 +3,9 @@
 //! JSON, every SVG with usvg. A small budget keeps it quick.
 
 use proptest::prelude::*;
-use raysheet::kit::Kit;
 use raysheet::output::{Formats, build_plans};
-use raysheet::plan::plan_kit;
+use raysheet::sheets::Lesson;
+use raysheet::sheets::plan_lesson;
 
 fn face(kind: u8, r: f64) -> String {
     match kind % 3 {
@@ -41,8 +41,8 @@ proptest! {
         );
         // Invalid combinations (negative edge, a sheet kind that does not fit)
         // are refused with an error, which is fine here.
-        let Ok(kit) = Kit::from_toml(&text, "random.toml") else { return Ok(()) };
-        let plans = plan_kit(&kit, &kit.paper);
+        let Ok(kit) = Lesson::from_toml(&text, "random.toml") else { return Ok(()) };
+        let plans = plan_lesson(&kit, &kit.paper);
         match build_plans(&kit, &plans, &kit.paper, Formats { pdf: true, svg: true }, None) {
             Ok(files) => {
                 for f in &files {

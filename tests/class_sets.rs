@@ -6,14 +6,18 @@
 use std::collections::{BTreeMap, BTreeSet};
 use std::path::Path;
 
-use raysheet::kit::{Groups, Kit, MAX_GROUPS, SheetKind};
+use raysheet::kit::{Groups, Kit, MAX_GROUPS};
 use raysheet::layout::{self, Templates};
 use raysheet::output::answers::to_json;
 use raysheet::output::summary::summary_csv;
 use raysheet::output::{Formats, Output, build_class};
 use raysheet::paper::PaperSpec;
-use raysheet::plan::{ClassPlan, Group, SafeBand, folder_names, parse_roster, plan_class};
+use raysheet::plan::{Group, folder_names, parse_roster};
 use raysheet::scene::dump;
+use raysheet::sheets::Lesson;
+use raysheet::sheets::SheetKind;
+use raysheet::sheets::lens::SafeBand;
+use raysheet::sheets::{ClassPlan, plan_class};
 
 mod common {
     pub mod cli;
@@ -35,8 +39,8 @@ fn fixture_text(name: &str) -> String {
     std::fs::read_to_string(fixture_path(name)).expect("fixture is readable")
 }
 
-fn fixture(name: &str) -> Kit {
-    Kit::from_toml(&fixture_text(name), name).unwrap_or_else(|e| panic!("fixture {name} is valid: {e}"))
+fn fixture(name: &str) -> Lesson {
+    Lesson::from_toml(&fixture_text(name), name).unwrap_or_else(|e| panic!("fixture {name} is valid: {e}"))
 }
 
 /// Groups as `app::job` makes them: the kit's names (or `Group n`) with their folders.
@@ -53,7 +57,7 @@ fn groups_named(names: &[String]) -> Vec<Group> {
     names.iter().cloned().zip(folder_names(names)).map(|(name, folder)| Group { name, folder }).collect()
 }
 
-fn bench() -> (Kit, PaperSpec) {
+fn bench() -> (Lesson, PaperSpec) {
     let kit = fixture("class_bench.toml");
     let paper = kit.paper.clone();
     (kit, paper)
@@ -66,7 +70,7 @@ fn on_grid(h: f64) -> bool {
 fn heights(cp: &ClassPlan) -> Vec<Vec<Vec<f64>>> {
     cp.plans
         .iter()
-        .map(|g| g.iter().map(|p| p.rays.iter().map(|r| r.height_mm).collect()).collect())
+        .map(|g| g.iter().map(|p| p.lens().unwrap().rays.iter().map(|r| r.height_mm).collect()).collect())
         .collect()
 }
 
@@ -83,8 +87,9 @@ fn drawn_heights_lie_in_each_sheets_safe_band_on_the_grid() {
     for (g, plans) in cp.plans.iter().enumerate() {
         assert_eq!(plans.len(), 2);
         for p in plans {
-            let band: &SafeBand = p.band.as_ref().expect("the fixture's sheets have a safe band");
-            let hs: Vec<f64> = p.rays.iter().map(|r| r.height_mm).collect();
+            let band: &SafeBand =
+                p.lens().unwrap().band.as_ref().expect("the fixture's sheets have a safe band");
+            let hs: Vec<f64> = p.lens().unwrap().rays.iter().map(|r| r.height_mm).collect();
             let at = format!(
                 "group {} sheet {} heights {hs:?} band {:.2}–{:.2}",
                 g + 1,
@@ -105,7 +110,7 @@ fn drawn_heights_lie_in_each_sheets_safe_band_on_the_grid() {
                             "outside the band: {at}"
                         );
                     }
-                    assert!(p.rays.iter().all(|r| r.in_band), "{at}");
+                    assert!(p.lens().unwrap().rays.iter().all(|r| r.in_band), "{at}");
                     // …and at least two ray widths apart (issue 4).
                     for (i, a) in hs.iter().enumerate() {
                         for b in &hs[i + 1..] {
@@ -127,8 +132,9 @@ fn drawn_heights_lie_in_each_sheets_safe_band_on_the_grid() {
                     for w in hs.windows(2) {
                         assert!(((w[0] - w[1]) - SPACING_MM).abs() < 1e-9, "spacing: {at}");
                     }
-                    entries.insert(p.entry.as_str());
+                    entries.insert(p.enter.as_str());
                 }
+                other => panic!("the fixture has no {} sheet", other.as_str()),
             }
         }
     }
@@ -149,7 +155,7 @@ fn groups_get_different_heights_and_answers_when_the_band_has_room() {
         let settings: BTreeSet<(String, String)> = cp
             .plans
             .iter()
-            .map(|g| (g[sheet].entry.as_str().to_string(), format!("{:?}", heights_of(&g[sheet]))))
+            .map(|g| (g[sheet].enter.as_str().to_string(), format!("{:?}", heights_of(&g[sheet]))))
             .collect();
         assert_eq!(settings.len(), 12, "sheet {}: {settings:?}", sheet + 1);
         // What matters in the room: no two groups share their crossings.
@@ -160,6 +166,8 @@ fn groups_get_different_heights_and_answers_when_the_band_has_room() {
                 format!(
                     "{:?}",
                     g[sheet]
+                        .lens()
+                        .unwrap()
                         .rays
                         .iter()
                         .map(|r| r.crossing_from_entry_mm.map(|x| (x * 100.0).round()))
@@ -174,8 +182,8 @@ fn groups_get_different_heights_and_answers_when_the_band_has_room() {
     assert_eq!(curved.len(), 12);
 }
 
-fn heights_of(p: &raysheet::plan::SheetPlan) -> Vec<f64> {
-    p.rays.iter().map(|r| r.height_mm).collect()
+fn heights_of(p: &raysheet::sheets::SheetPlan) -> Vec<f64> {
+    p.lens().unwrap().rays.iter().map(|r| r.height_mm).collect()
 }
 
 /// A symmetric piece turned round is the same piece: two groups that get the
@@ -401,7 +409,7 @@ fn every_ray_in_the_answer_file_carries_the_letter_printed_beside_it() {
             for ray in sheet["rays"].as_array().unwrap() {
                 let (letter, h) = (ray["ray"].as_str().unwrap(), ray["height_mm"].as_f64().unwrap());
                 // The guide line's label on the student sheet: letter and signed height.
-                let label = format!("{letter} {}", layout::signed(h));
+                let label = format!("{letter} {}", raysheet::sheets::lens::signed(h));
                 assert!(text.contains(&format!("{label:?}")), "{label} not on {}", page.name);
                 seen += 1;
             }
@@ -442,7 +450,7 @@ fn names_are_printed_exactly_on_the_sheets() {
 #[test]
 fn too_many_groups_is_a_clear_error_naming_the_field_and_the_maximum() {
     let text = fixture_text("class_bench.toml").replace("groups = 12", "groups = 500");
-    let e = Kit::from_toml(&text, "class_bench.toml").expect_err("500 groups is refused").to_string();
+    let e = Lesson::from_toml(&text, "class_bench.toml").expect_err("500 groups is refused").to_string();
     assert!(e.contains("class.groups"), "{e}");
     assert!(e.contains("500") && e.contains(&MAX_GROUPS.to_string()), "{e}");
     // A roster longer than the maximum is refused at the first name too many.

@@ -10,9 +10,10 @@
 //! say *which* text the error must point at.
 
 use proptest::prelude::*;
-use raysheet::kit::{Kit, KitError};
+use raysheet::demo;
+use raysheet::kit::KitError;
 use raysheet::output::answers;
-use raysheet::{demo, plan};
+use raysheet::sheets::Lesson;
 
 const FILE: &str = "bench.toml";
 
@@ -66,7 +67,7 @@ piece = "cx90"
 /// The base kit is valid: every error below comes from the one change made.
 #[test]
 fn base_kit_is_valid() {
-    let kit = Kit::from_toml(BASE, FILE).unwrap_or_else(|e| panic!("{e}"));
+    let kit = Lesson::from_toml(BASE, FILE).unwrap_or_else(|e| panic!("{e}"));
     assert_eq!(kit.pieces.len(), 4);
     assert_eq!(kit.sheets.len(), 2);
 }
@@ -93,7 +94,7 @@ fn nth_line(text: &str, needle: &str, n: usize) -> usize {
 }
 
 fn error(text: &str) -> KitError {
-    match Kit::from_toml(text, FILE) {
+    match Lesson::from_toml(text, FILE) {
         Ok(_) => panic!("the kit was accepted:\n{text}"),
         Err(e) => e,
     }
@@ -167,7 +168,9 @@ fn unknown_field_far_from_any_name_lists_the_accepted_ones() {
             line,
             col: Some(col),
             field: "pieces[2].colour",
-            hint: &["accepted here: id, label, material, front, back, thickness_mm, height_mm"],
+            hint: &[
+                "accepted here: id, label, material, shape, front, back, thickness_mm, height_mm, apex_deg, side_mm",
+            ],
         },
     );
     assert!(!e.hint.contains("did you mean"), "{e}");
@@ -541,8 +544,8 @@ fn negative_edge_thickness() {
 #[test]
 fn zero_edge_thickness_is_accepted() {
     // A half-disc has edge thickness exactly 0 (DESIGN.md): the boundary case passes.
-    let kit = Kit::from_toml(BASE, FILE).unwrap();
-    assert!(kit.pieces[0].piece.edge_thickness_mm().abs() < 1e-12);
+    let kit = Lesson::from_toml(BASE, FILE).unwrap();
+    assert!(kit.pieces[0].piece.lens().unwrap().edge_thickness_mm().abs() < 1e-12);
 }
 
 // -------------------------------------------------- sheets that don't fit pieces
@@ -704,7 +707,12 @@ fn bad_sheet_kind() {
     let (line, col) = at(&text, "\"focus\"");
     check(
         &error(&text),
-        Expect { line, col: Some(col), field: "sheets[2].kind", hint: &["\"curved-face\" or \"focal\""] },
+        Expect {
+            line,
+            col: Some(col),
+            field: "sheets[2].kind",
+            hint: &["\"curved-face\", \"focal\", \"block\" or \"prism\""],
+        },
     );
 }
 
@@ -729,8 +737,8 @@ fn toml_syntax_errors_are_located_too() {
 /// Parses; when the kit is valid, plans it and writes the answer file, which
 /// must be JSON. Any panic fails the property.
 fn run_all(text: &str) {
-    if let Ok(kit) = Kit::from_toml(text, FILE) {
-        let plans = plan::plan_kit(&kit, &kit.paper);
+    if let Ok(kit) = Lesson::from_toml(text, FILE) {
+        let plans = raysheet::sheets::plan_lesson(&kit, &kit.paper);
         let json = answers::to_json(&kit.title, kit.class.seed, &plans);
         assert!(serde_json::from_str::<serde_json::Value>(&json).is_ok(), "answer file is not JSON:\n{json}");
     }
@@ -852,5 +860,5 @@ fn title_or_label_the_font_cannot_print_is_located() {
 fn accented_and_greek_labels_are_accepted() {
     let text =
         edit(BASE, "id = \"hd33\"", "id = \"hd33\"\nlabel = \"Halbscheibe, Ø 66 mm, n≈1.50 (θ < 42°)\"");
-    assert!(Kit::from_toml(&text, FILE).is_ok());
+    assert!(Lesson::from_toml(&text, FILE).is_ok());
 }

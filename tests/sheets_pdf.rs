@@ -8,7 +8,7 @@ use lopdf::{Document, ObjectId};
 use raysheet::layout::{self, TILE_OVERLAP_MM};
 use raysheet::output::{Formats, Output};
 use raysheet::paper::Orientation;
-use raysheet::plan::plan_kit;
+use raysheet::sheets::plan_lesson;
 
 mod common {
     pub mod pdfread;
@@ -210,7 +210,7 @@ fn scale_bars_measure_100_mm_across_and_50_mm_up_after_the_cm_transforms() {
 fn the_half_disc_outline_spans_its_diameter_on_the_page() {
     let kit = fixture("sheets_halfdisc.toml");
     let p = paper("A4", Orientation::Auto);
-    let plans = plan_kit(&kit, &p);
+    let plans = plan_lesson(&kit, &p);
     let set = scenes(&kit, &plans, &p);
     let out = build(&kit, &p, PDF_ONLY);
     for (name, scene) in [("sheets.pdf", &set.sheets), ("keys.pdf", &set.keys)] {
@@ -252,7 +252,7 @@ fn pdftoppm_shows_the_half_disc_at_true_height() {
     }
     let kit = fixture("sheets_halfdisc.toml");
     let p = paper("A4", Orientation::Auto);
-    let plans = plan_kit(&kit, &p);
+    let plans = plan_lesson(&kit, &p);
     let offset = group(&scenes(&kit, &plans, &p).sheets.pages[0]).0;
     let dir = tempfile::tempdir().unwrap();
     let pdf = dir.path().join("sheets.pdf");
@@ -303,9 +303,9 @@ fn the_same_kit_gives_identical_bytes_even_after_another_build_in_the_same_proce
 fn a_setup_longer_than_the_page_tiles_into_the_hand_computed_page_count() {
     let kit = fixture("sheets_weak_lens.toml");
     let p = paper("A4", Orientation::Auto);
-    let plans = plan_kit(&kit, &p);
+    let plans = plan_lesson(&kit, &p);
     assert_eq!(plans.len(), 1);
-    let s = plans[0].setup;
+    let s = plans[0].setup();
     let window = layout::regions(&p).drawing;
     let (w, l) = (window.width(), s.x_max - s.x_min);
     // By hand (DESIGN.md, lens maker's formula and thick lens): plano-convex
@@ -324,9 +324,9 @@ fn a_setup_longer_than_the_page_tiles_into_the_hand_computed_page_count() {
     let n = ((l - o) / (w - o)).ceil() as usize;
     assert_eq!(n, 3);
     assert!(
-        2.0 * s.y_half <= window.height(),
+        s.height() <= window.height(),
         "one row: {} mm across, window {} mm",
-        2.0 * s.y_half,
+        s.height(),
         window.height()
     );
 

@@ -2,13 +2,14 @@
 //! rendered with resvg: page size and viewBox in millimetres, and the key's
 //! pixels dark where the traced rays cross and light away from them.
 
+use raysheet::draw::text_box;
 use raysheet::geom::Point;
-use raysheet::kit::Kit;
-use raysheet::layout::{self, text_box};
+use raysheet::layout;
 use raysheet::output::{Formats, Output, build_plans};
 use raysheet::paper::{Orientation, PaperSpec};
-use raysheet::plan::{SheetPlan, plan_kit};
 use raysheet::scene::Item;
+use raysheet::sheets::Lesson;
+use raysheet::sheets::{SheetPlan, plan_lesson};
 use resvg::tiny_skia;
 
 mod common {
@@ -157,8 +158,8 @@ fn clearance(items: &[Item], p: Point) -> f64 {
     d
 }
 
-fn plan_and_pages(kit: &Kit, p: &PaperSpec) -> (Vec<SheetPlan>, layout::SheetSet, Vec<Output>) {
-    let plans = plan_kit(kit, p);
+fn plan_and_pages(kit: &Lesson, p: &PaperSpec) -> (Vec<SheetPlan>, layout::SheetSet, Vec<Output>) {
+    let plans = plan_lesson(kit, p);
     let set = scenes(kit, &plans, p);
     let out = build_plans(kit, &plans, p, SVG_ONLY, None).unwrap();
     (plans, set, out)
@@ -169,7 +170,7 @@ fn the_rendered_key_is_dark_where_the_rays_cross_and_light_away_from_them() {
     let kit = fixture("sheets_halfdisc.toml");
     let p = paper("A4", Orientation::Auto);
     let (plans, set, out) = plan_and_pages(&kit, &p);
-    let plan = &plans[0];
+    let plan = plans[0].lens().expect("a lens sheet");
     assert_eq!(set.keys.pages.len(), 1, "the half-disc setup fits one page");
     let (offset, key_items) = group(&set.keys.pages[0]);
     let (w, h) = (set.keys.pages[0].width_mm, set.keys.pages[0].height_mm);

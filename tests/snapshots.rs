@@ -8,11 +8,11 @@
 use std::path::PathBuf;
 
 use raysheet::demo::DEMO_KIT;
-use raysheet::kit::Kit;
 use raysheet::layout::{Templates, layout};
-use raysheet::plan::plan_kit;
 use raysheet::render::{render_pdf, render_svg_page};
 use raysheet::scene::dump;
+use raysheet::sheets::Lesson;
+use raysheet::sheets::plan_lesson;
 
 fn snapshot_path(name: &str) -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("tests/snapshots").join(name)
@@ -38,8 +38,8 @@ fn check(name: &str, actual: &[u8]) {
 }
 
 fn demo_set() -> raysheet::layout::SheetSet {
-    let kit = Kit::from_toml(DEMO_KIT, "demo").expect("demo kit");
-    let plans = plan_kit(&kit, &kit.paper);
+    let kit = Lesson::from_toml(DEMO_KIT, "demo").expect("demo kit");
+    let plans = plan_lesson(&kit, &kit.paper);
     layout(&kit.title, &plans, &kit.paper, &Templates::shipped().expect("templates"))
 }
 

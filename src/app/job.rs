@@ -13,6 +13,7 @@ use crate::layout::{TEMPLATE_FILES, Templates};
 use crate::output::Formats;
 use crate::paper::{Orientation, PaperSize, PaperSpec};
 use crate::plan::{self, Group};
+use crate::sheets::Lesson;
 
 /// Seed of a class set when neither the kit nor the command line gives one.
 pub const DEFAULT_SEED: u64 = 1;
@@ -87,7 +88,7 @@ pub struct ClassSetup {
 #[derive(Clone, Debug)]
 pub struct BuildJob {
     /// The kit.
-    pub kit: Kit,
+    pub kit: Lesson,
     /// The folder to write into.
     pub dir: PathBuf,
     /// Overwrite files there that raysheet did not write.
@@ -110,7 +111,7 @@ pub enum Job {
     /// Print the check report.
     Check {
         /// The kit.
-        kit: Kit,
+        kit: Lesson,
         /// The paper.
         paper: PaperSpec,
         /// The kit's own class set, if it has one.
@@ -119,7 +120,7 @@ pub enum Job {
     /// Print the answers, as a table or as the answer file.
     Solve {
         /// The kit.
-        kit: Kit,
+        kit: Lesson,
         /// The paper.
         paper: PaperSpec,
         /// The class set, if any.
@@ -170,7 +171,7 @@ impl Job {
             Command::Templates { out, force } => Ok(Job::WriteTemplates { dir: out, force }),
             Command::Demo { print_kit: true, .. } => Ok(Job::PrintDemoKit),
             Command::Demo { out, class, .. } => {
-                let kit = Kit::from_toml(demo::DEMO_KIT, demo::DEMO_NAME)
+                let kit = Lesson::from_toml(demo::DEMO_KIT, demo::DEMO_NAME)
                     .map_err(|e| Failure::Other(format!("the embedded demo kit is invalid: {e}")))?;
                 let dir = out.out.clone().unwrap_or_else(|| PathBuf::from(DEMO_DIR));
                 build_job(kit, dir, &out, &PaperArgs::default(), &class, &inputs)
@@ -190,7 +191,7 @@ impl Job {
 }
 
 fn build_job(
-    kit: Kit,
+    kit: Lesson,
     dir: PathBuf,
     out: &OutArgs,
     paper: &PaperArgs,
@@ -219,7 +220,7 @@ fn not_read(what: &str) -> Failure {
 }
 
 /// The kit from its file's bytes: readable, UTF-8, valid.
-pub fn kit_from(source: Option<&Source<Vec<u8>>>) -> Result<Kit, Failure> {
+pub fn kit_from(source: Option<&Source<Vec<u8>>>) -> Result<Lesson, Failure> {
     let source = source.ok_or_else(|| not_read("kit file"))?;
     let name = source.path.display().to_string();
     let bytes = source
@@ -232,7 +233,7 @@ pub fn kit_from(source: Option<&Source<Vec<u8>>>) -> Result<Kit, Failure> {
             e.valid_up_to()
         ))
     })?;
-    Kit::from_toml(text, &name).map_err(|e| Failure::Input(e.to_string()))
+    Lesson::from_toml(text, &name).map_err(|e| Failure::Input(e.to_string()))
 }
 
 /// The roster's source when `--roster` was given.
@@ -430,11 +431,11 @@ mod tests {
 
     #[test]
     fn groups_come_from_the_roster_first_then_the_kit() {
-        let kit = Kit::from_toml(CLASS_KIT, "lab.toml").unwrap();
+        let kit = Lesson::from_toml(CLASS_KIT, "lab.toml").unwrap();
         let roster = source("r.csv", Ok(b"name\nBench A\nBench B\n".to_vec()));
         assert_eq!(resolve_groups(&kit, roster.as_ref()).unwrap().unwrap(), ["Bench A", "Bench B"]);
         assert_eq!(resolve_groups(&kit, None).unwrap().unwrap(), ["Group 1", "Group 2", "Group 3"]);
-        let plain = Kit::from_toml(demo::DEMO_KIT, demo::DEMO_NAME).unwrap();
+        let plain = Lesson::from_toml(demo::DEMO_KIT, demo::DEMO_NAME).unwrap();
         assert_eq!(resolve_groups(&plain, None).unwrap(), None);
         let unreadable = source("r.csv", Err("permission denied".into()));
         let e = resolve_groups(&kit, unreadable.as_ref()).unwrap_err();
@@ -446,12 +447,12 @@ mod tests {
 
     #[test]
     fn the_seed_is_the_flag_else_the_kits_else_one() {
-        let kit = Kit::from_toml(CLASS_KIT, "lab.toml").unwrap();
+        let kit = Lesson::from_toml(CLASS_KIT, "lab.toml").unwrap();
         let setup = class_setup(&kit, None, Some(9)).unwrap().unwrap();
         assert_eq!(setup.seed, 9);
         assert_eq!(setup.groups[2], Group { name: "Group 3".into(), folder: "03-group-3".into() });
         assert_eq!(class_setup(&kit, None, None).unwrap().unwrap().seed, 44);
-        let unseeded = Kit::from_toml(&CLASS_KIT.replace("seed = 44", ""), "lab.toml").unwrap();
+        let unseeded = Lesson::from_toml(&CLASS_KIT.replace("seed = 44", ""), "lab.toml").unwrap();
         assert_eq!(class_setup(&unseeded, None, None).unwrap().unwrap().seed, DEFAULT_SEED);
     }
 

@@ -6,11 +6,10 @@ use std::path::PathBuf;
 use super::Failure;
 use super::job::{BuildJob, ClassSetup, Job};
 use crate::demo;
-use crate::kit::Kit;
 use crate::layout::{TEMPLATE_FILES, shipped_template};
 use crate::output::{Output, answers, build_class_with, build_plans_with, report};
 use crate::paper::PaperSpec;
-use crate::plan::{self, ClassPlan, SheetPlan};
+use crate::sheets::{self, ClassPlan, Lesson, SheetPlan};
 
 /// What a job hands back to `main.rs`.
 #[derive(Clone, Debug, PartialEq)]
@@ -94,13 +93,13 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
     }
 }
 
-fn class_plan(kit: &Kit, paper: &PaperSpec, class: ClassSetup) -> ClassPlan {
-    plan::plan_class(kit, paper, class.groups, class.seed)
+fn class_plan(kit: &Lesson, paper: &PaperSpec, class: ClassSetup) -> ClassPlan {
+    sheets::plan_class(kit, paper, class.groups, class.seed)
 }
 
 /// The `check` report, and the class set's notes when the kit has one.
-fn check(kit: &Kit, paper: &PaperSpec, class: Option<ClassSetup>) -> String {
-    let plans = plan::plan_kit(kit, paper);
+fn check(kit: &Lesson, paper: &PaperSpec, class: Option<ClassSetup>) -> String {
+    let plans = sheets::plan_lesson(kit, paper);
     let mut s = report::check_report(kit, &plans);
     if let Some(cp) = class.map(|c| class_plan(kit, paper, c)) {
         s.push_str(&format!("\nClass set: {} groups, seed {}\n", cp.groups.len(), cp.seed));
@@ -116,14 +115,14 @@ fn check(kit: &Kit, paper: &PaperSpec, class: Option<ClassSetup>) -> String {
 
 /// The answers as the answer file (JSON) or as text tables.
 fn solve(
-    kit: &Kit,
+    kit: &Lesson,
     paper: &PaperSpec,
     class: Option<ClassSetup>,
     seed_flag: Option<u64>,
     json: bool,
 ) -> String {
     let (plans, notes, seed) = match class.map(|c| class_plan(kit, paper, c)) {
-        None => (plan::plan_kit(kit, paper), Vec::new(), seed_flag),
+        None => (sheets::plan_lesson(kit, paper), Vec::new(), seed_flag),
         Some(cp) => (cp.plans.into_iter().flatten().collect(), cp.notes, Some(cp.seed)),
     };
     if json {
@@ -151,7 +150,7 @@ fn build(job: BuildJob) -> Result<Writing, Failure> {
     let BuildJob { kit, dir, force, formats, paper, templates, class, seed_flag } = job;
     let (files, warnings) = match class.map(|c| class_plan(&kit, &paper, c)) {
         None => {
-            let plans = plan::plan_kit(&kit, &paper);
+            let plans = sheets::plan_lesson(&kit, &paper);
             let warnings = sheet_warnings(&plans);
             (build_plans_with(&kit, &plans, &paper, formats, seed_flag, &templates), warnings)
         }
@@ -224,7 +223,7 @@ mod tests {
         let Ok(Outcome::Print(table)) = run(resolve(&["solve", "k.toml"], Some(demo::DEMO_KIT))) else {
             panic!("solve prints")
         };
-        let kit = Kit::from_toml(demo::DEMO_KIT, "k.toml").unwrap();
+        let kit = Lesson::from_toml(demo::DEMO_KIT, "k.toml").unwrap();
         assert!(table.starts_with(&format!("{}\n\nSheet 1: ", kit.title)), "{table}");
         let Ok(Outcome::Print(json)) =
             run(resolve(&["solve", "k.toml", "--json", "--seed", "5"], Some(demo::DEMO_KIT)))

@@ -7,6 +7,7 @@
 )]
 
 mod error;
+mod fields;
 mod group_name;
 mod raw;
 
@@ -14,11 +15,12 @@ use std::collections::BTreeMap;
 
 pub use error::KitError;
 use error::Locator;
+pub use fields::{COMMON_SHEET_FIELDS, Located, Place, SheetEntry};
 pub use group_name::{MAX_NAME_CHARS, group_name_problem};
-use raw::{RawKit, RawPiece, RawSheet, TABLE_FIELDS};
+use raw::{RawKit, RawPiece, TABLE_FIELDS};
 use toml::Spanned;
 
-use crate::optics::{Entry, Face, Lens as Piece, Paraxial};
+use crate::optics::{Block, Face, Lens, Piece, Prism};
 use crate::paper::{Orientation, PaperSize, PaperSpec};
 
 /// The ray box: parallel rays for focal-length sheets.
@@ -40,33 +42,6 @@ impl Default for RayBox {
     }
 }
 
-/// What a sheet asks students to do.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
-pub enum SheetKind {
-    /// Single guide rays: flat face first, refraction at the curved face.
-    CurvedFace,
-    /// The ray box's parallel beam through a converging or diverging piece.
-    Focal,
-}
-
-impl SheetKind {
-    /// The kit-file word.
-    pub fn as_str(self) -> &'static str {
-        match self {
-            SheetKind::CurvedFace => "curved-face",
-            SheetKind::Focal => "focal",
-        }
-    }
-
-    /// A title for the sheet.
-    pub fn title(self) -> &'static str {
-        match self {
-            SheetKind::CurvedFace => "Refraction at a curved face",
-            SheetKind::Focal => "Focal length of a lens shape",
-        }
-    }
-}
-
 /// A piece of the kit with its name and material resolved.
 #[derive(Clone, Debug, PartialEq)]
 pub struct KitPiece {
@@ -79,25 +54,6 @@ pub struct KitPiece {
     /// The checked optical piece (index resolved from the material).
     pub piece: Piece,
     /// Line of the `[[pieces]]` entry, for messages.
-    pub line: usize,
-}
-
-/// One sheet asked for by the kit.
-#[derive(Clone, Debug, PartialEq)]
-pub struct SheetSpec {
-    /// 1-based position in the kit's `[[sheets]]` list.
-    pub number: usize,
-    /// What kind of sheet.
-    pub kind: SheetKind,
-    /// Index into [`Kit::pieces`].
-    pub piece: usize,
-    /// Which face the light meets first.
-    pub entry: Entry,
-    /// Whether class variants may turn the piece round (only where the sheet kind allows).
-    pub vary_entry: bool,
-    /// Fixed guide heights, mm (signed, + above the axis); `None`: chosen in the safe band.
-    pub heights_mm: Option<Vec<f64>>,
-    /// Line of the `[[sheets]]` entry.
     pub line: usize,
 }
 
@@ -144,8 +100,9 @@ pub struct Kit {
     pub ray_box: RayBox,
     /// The pieces, in kit order.
     pub pieces: Vec<KitPiece>,
-    /// The sheets, in kit order.
-    pub sheets: Vec<SheetSpec>,
+    /// The sheets, in kit order, as located tables: each sheet kind reads and
+    /// checks its own fields (see `sheets`).
+    pub sheets: Vec<SheetEntry>,
     /// The paper from the kit (the command line may override it).
     pub paper: PaperSpec,
     /// The class set.
@@ -289,6 +246,18 @@ impl Validator<'_> {
         Ok(())
     }
 
+    fn piece_field_span(&self, p: &RawPiece, name: &str) -> Option<std::ops::Range<usize>> {
+        match name {
+            "front" => p.front.as_ref().map(|v| v.span()),
+            "back" => p.back.as_ref().map(|v| v.span()),
+            "thickness_mm" => p.thickness_mm.as_ref().map(|v| v.span()),
+            "height_mm" => p.height_mm.as_ref().map(|v| v.span()),
+            "apex_deg" => p.apex_deg.as_ref().map(|v| v.span()),
+            "side_mm" => p.side_mm.as_ref().map(|v| v.span()),
+            _ => None,
+        }
+    }
+
     fn positive(&self, v: &Spanned<f64>, field: String, what: &str) -> Result<f64, KitError> {
         let x = *v.get_ref();
         if x.is_finite() && x > 0.0 {
@@ -337,7 +306,7 @@ impl Validator<'_> {
         }
         let mut sheets = Vec::new();
         for (i, s) in raw.sheets.iter().enumerate() {
-            sheets.push(self.sheet(i, s, &pieces)?);
+            sheets.push(SheetEntry::new(self.loc, i + 1, s, &pieces)?);
         }
         let paper = self.paper(raw.paper)?;
         let class = self.class(raw.class)?;
@@ -500,25 +469,93 @@ impl Validator<'_> {
                 &hint,
             );
         };
-        let front = self.face(&p.front, f("front"))?;
-        let back = self.face(&p.back, f("back"))?;
-        let thickness = self.positive(&p.thickness_mm, f("thickness_mm"), "thickness")?;
-        let height = self.positive(&p.height_mm, f("height_mm"), "height")?;
-        let piece = Piece::new(front, back, thickness, height, index).map_err(|e| {
+        let shape = p.shape.as_ref().map(|s| s.get_ref().as_str()).unwrap_or("lens");
+        // Fields that belong to other shapes are refused by name.
+        let belongs: &[(&str, bool)] = &[
+            ("front", p.front.is_some()),
+            ("back", p.back.is_some()),
+            ("thickness_mm", p.thickness_mm.is_some()),
+            ("height_mm", p.height_mm.is_some()),
+            ("apex_deg", p.apex_deg.is_some()),
+            ("side_mm", p.side_mm.is_some()),
+        ];
+        let wanted: &[&str] = match shape {
+            "lens" => &["front", "back", "thickness_mm", "height_mm"],
+            "block" => &["thickness_mm", "height_mm"],
+            "prism" => &["apex_deg", "side_mm"],
+            other => {
+                let span = p.shape.as_ref().map(|s| s.span()).unwrap_or(sp.span());
+                return self.err(
+                    span,
+                    f("shape"),
+                    format!("\"{other}\" is not a piece shape"),
+                    "give \"lens\" (two faces, the default), \"block\" or \"prism\"",
+                );
+            }
+        };
+        for (name, present) in belongs {
+            if *present && !wanted.contains(name) {
+                let span = self.piece_field_span(p, name).unwrap_or(sp.span());
+                return self.err(
+                    span,
+                    f(name),
+                    format!("a {shape} has no `{name}`"),
+                    &format!(
+                        "a {shape} takes {}; set shape = \"…\" if this piece is another shape",
+                        wanted.join(", ")
+                    ),
+                );
+            }
+        }
+        for name in wanted {
+            if !belongs.iter().any(|(n, present)| n == name && *present) {
+                return self.err(
+                    sp.span(),
+                    f(name),
+                    format!("missing field `{name}`"),
+                    &format!("add `{name} = …` to this table"),
+                );
+            }
+        }
+        let req = |v: &Option<Spanned<f64>>| v.clone().expect("checked present above");
+        let map_err = |e: crate::optics::PieceError| {
             use crate::optics::PieceError as E;
             let (span, field) = match &e {
-                E::RadiusBelowHalfHeight { face, .. } | E::Radius { face, .. } => (
-                    if *face == "front" { p.front.span() } else { p.back.span() },
-                    f(&format!("{face}.radius_mm")),
-                ),
-                E::NegativeEdge { .. } | E::Thickness(_) => (p.thickness_mm.span(), f("thickness_mm")),
-                E::Height(_) => (p.height_mm.span(), f("height_mm")),
-                E::Size { what: "height", .. } => (p.height_mm.span(), f("height_mm")),
-                E::Size { .. } => (p.thickness_mm.span(), f("thickness_mm")),
-                E::Index(_) | E::Apex(_) => (p.material.span(), f("material")),
+                E::RadiusBelowHalfHeight { face, .. } | E::Radius { face, .. } => {
+                    let v = if *face == "front" { &p.front } else { &p.back };
+                    (v.as_ref().map(|v| v.span()).unwrap_or(sp.span()), f(&format!("{face}.radius_mm")))
+                }
+                E::NegativeEdge { .. } | E::Thickness(_) | E::Size { what: "thickness", .. } => {
+                    (self.piece_field_span(p, "thickness_mm").unwrap_or(sp.span()), f("thickness_mm"))
+                }
+                E::Height(_) | E::Size { what: "height", .. } => {
+                    (self.piece_field_span(p, "height_mm").unwrap_or(sp.span()), f("height_mm"))
+                }
+                E::Size { .. } => (self.piece_field_span(p, "side_mm").unwrap_or(sp.span()), f("side_mm")),
+                E::Apex(_) => (self.piece_field_span(p, "apex_deg").unwrap_or(sp.span()), f("apex_deg")),
+                E::Index(_) => (p.material.span(), f("material")),
             };
             self.loc.error(span.start, field, e.problem(), e.advice())
-        })?;
+        };
+        let piece = match shape {
+            "lens" => {
+                let front = self.face(p.front.as_ref().expect("checked"), f("front"))?;
+                let back = self.face(p.back.as_ref().expect("checked"), f("back"))?;
+                let thickness = self.positive(&req(&p.thickness_mm), f("thickness_mm"), "thickness")?;
+                let height = self.positive(&req(&p.height_mm), f("height_mm"), "height")?;
+                Piece::Lens(Lens::new(front, back, thickness, height, index).map_err(map_err)?)
+            }
+            "block" => {
+                let thickness = self.positive(&req(&p.thickness_mm), f("thickness_mm"), "thickness")?;
+                let height = self.positive(&req(&p.height_mm), f("height_mm"), "height")?;
+                Piece::Block(Block::new(thickness, height, index).map_err(map_err)?)
+            }
+            _ => {
+                let apex = *req(&p.apex_deg).get_ref();
+                let side = self.positive(&req(&p.side_mm), f("side_mm"), "side length")?;
+                Piece::Prism(Prism::new(apex, side, index).map_err(map_err)?)
+            }
+        };
         Ok(KitPiece {
             id,
             label: match &p.label {
@@ -531,143 +568,6 @@ impl Validator<'_> {
             material,
             piece,
             line: self.line(&sp.span()),
-        })
-    }
-
-    fn sheet(&self, i: usize, ss: &Spanned<RawSheet>, pieces: &[KitPiece]) -> Result<SheetSpec, KitError> {
-        let s = ss.get_ref();
-        let f = |name: &str| format!("sheets[{}].{name}", i + 1);
-        let kind = match s.kind.get_ref().as_str() {
-            "curved-face" => SheetKind::CurvedFace,
-            "focal" => SheetKind::Focal,
-            other => {
-                return self.err(
-                    s.kind.span(),
-                    f("kind"),
-                    format!("\"{other}\" is not a sheet kind"),
-                    "give \"curved-face\" or \"focal\"",
-                );
-            }
-        };
-        let Some(pi) = pieces.iter().position(|p| &p.id == s.piece.get_ref()) else {
-            let ids: Vec<&str> = pieces.iter().map(|p| p.id.as_str()).collect();
-            let hint = if ids.is_empty() {
-                "the kit has no [[pieces]] yet".to_string()
-            } else {
-                format!("known pieces: {}", ids.join(", "))
-            };
-            return self.err(
-                s.piece.span(),
-                f("piece"),
-                format!("no piece has id `{}`", s.piece.get_ref()),
-                &hint,
-            );
-        };
-        let kp = &pieces[pi];
-        let entry = match s.enter.as_ref().map(|e| e.get_ref().as_str()) {
-            None | Some("front") => Entry::Front,
-            Some("back") => Entry::Back,
-            Some(other) => {
-                return self.err(
-                    s.enter.as_ref().map(|e| e.span()).unwrap_or(ss.span()),
-                    f("enter"),
-                    format!("\"{other}\" is not a side"),
-                    "give \"front\" or \"back\": the face the light meets first",
-                );
-            }
-        };
-        let enter_span = s.enter.as_ref().map(|e| e.span()).unwrap_or(s.kind.span());
-        let (first, second) = kp.piece.faces_for(entry);
-        match kind {
-            SheetKind::CurvedFace => {
-                if first.is_curved() || !second.is_curved() {
-                    let other = entry.flipped();
-                    let (of, os) = kp.piece.faces_for(other);
-                    let hint = if !of.is_curved() && os.is_curved() {
-                        format!("set enter = \"{}\" so the light meets the flat face first", other.as_str())
-                    } else {
-                        "a curved-face sheet needs a piece with one flat and one curved face, such as a half-disc or a plano-convex shape".to_string()
-                    };
-                    return self.err(
-                        enter_span,
-                        f(if s.enter.is_some() { "enter" } else { "kind" }),
-                        format!(
-                            "a curved-face sheet needs the light to meet a flat face first and a curved face second; piece `{}` entered from the {} has a {} face first and a {} face second",
-                            kp.id,
-                            entry.as_str(),
-                            first.describe(),
-                            second.describe()
-                        ),
-                        &hint,
-                    );
-                }
-            }
-            SheetKind::Focal => {
-                if Paraxial::of(&kp.piece, entry).efl_mm().is_none() {
-                    return self.err(
-                        s.kind.span(),
-                        f("kind"),
-                        format!(
-                            "piece `{}` has no focal length (both faces flat, or powers that cancel)",
-                            kp.id
-                        ),
-                        "use a converging or diverging piece for a focal sheet",
-                    );
-                }
-            }
-        }
-        let vary_entry = s.vary_entry.as_ref().map(|v| *v.get_ref()).unwrap_or(false);
-        if vary_entry && kind == SheetKind::CurvedFace {
-            return self.err(
-                s.vary_entry.as_ref().map(|v| v.span()).unwrap_or(ss.span()),
-                f("vary_entry"),
-                "a curved-face sheet must be entered through its flat face, so the entry side cannot vary"
-                    .into(),
-                "remove vary_entry from this sheet",
-            );
-        }
-        let heights = match &s.heights_mm {
-            None => None,
-            Some(list) => {
-                let a = kp.piece.half_height_mm();
-                let mut out = Vec::new();
-                if list.get_ref().is_empty() {
-                    return self.err(list.span(), f("heights_mm"), "the list of guide heights is empty".into(), "give at least one height, such as [10, -10], or leave heights_mm out to have them chosen");
-                }
-                if list.get_ref().len() > 9 {
-                    return self.err(
-                        list.span(),
-                        f("heights_mm"),
-                        format!(
-                            "{} guide heights is more than a sheet can show clearly",
-                            list.get_ref().len()
-                        ),
-                        "give at most 9 heights",
-                    );
-                }
-                for (j, h) in list.get_ref().iter().enumerate() {
-                    let v = *h.get_ref();
-                    if !v.is_finite() || v.abs() >= a {
-                        return self.err(
-                            h.span(),
-                            format!("{}[{}]", f("heights_mm"), j + 1),
-                            format!("guide height {v} mm is outside piece `{}`, which reaches {a} mm either side of the axis", kp.id),
-                            &format!("give heights between -{a} and {a} mm (not on the edge)"),
-                        );
-                    }
-                    out.push(v);
-                }
-                Some(out)
-            }
-        };
-        Ok(SheetSpec {
-            number: i + 1,
-            kind,
-            piece: pi,
-            entry,
-            vary_entry,
-            heights_mm: heights,
-            line: self.line(&ss.span()),
         })
     }
 

@@ -15,7 +15,7 @@ pub(super) struct RawKit {
     #[serde(default)]
     pub pieces: Vec<Spanned<RawPiece>>,
     #[serde(default)]
-    pub sheets: Vec<Spanned<RawSheet>>,
+    pub sheets: Vec<Spanned<super::fields::RawSheetTable>>,
     pub paper: Option<Spanned<RawPaper>>,
     pub class: Option<Spanned<RawClass>>,
 }
@@ -42,20 +42,13 @@ pub(super) struct RawPiece {
     pub id: Spanned<String>,
     pub label: Option<Spanned<String>>,
     pub material: Spanned<String>,
-    pub front: Spanned<toml::Value>,
-    pub back: Spanned<toml::Value>,
-    pub thickness_mm: Spanned<f64>,
-    pub height_mm: Spanned<f64>,
-}
-
-#[derive(Deserialize, Debug)]
-#[serde(deny_unknown_fields)]
-pub(super) struct RawSheet {
-    pub kind: Spanned<String>,
-    pub piece: Spanned<String>,
-    pub enter: Option<Spanned<String>>,
-    pub heights_mm: Option<Spanned<Vec<Spanned<f64>>>>,
-    pub vary_entry: Option<Spanned<bool>>,
+    pub shape: Option<Spanned<String>>,
+    pub front: Option<Spanned<toml::Value>>,
+    pub back: Option<Spanned<toml::Value>>,
+    pub thickness_mm: Option<Spanned<f64>>,
+    pub height_mm: Option<Spanned<f64>>,
+    pub apex_deg: Option<Spanned<f64>>,
+    pub side_mm: Option<Spanned<f64>>,
 }
 
 #[derive(Deserialize, Debug)]
@@ -82,8 +75,21 @@ pub(super) const TABLE_FIELDS: &[(&str, &[&str])] = &[
     ("", &["title", "materials", "ray_box", "pieces", "sheets", "paper", "class"]),
     ("materials", &["index", "label"]),
     ("ray_box", &["rays", "spacing_mm", "ray_width_mm"]),
-    ("pieces", &["id", "label", "material", "front", "back", "thickness_mm", "height_mm"]),
-    ("sheets", &["kind", "piece", "enter", "heights_mm", "vary_entry"]),
+    (
+        "pieces",
+        &[
+            "id",
+            "label",
+            "material",
+            "shape",
+            "front",
+            "back",
+            "thickness_mm",
+            "height_mm",
+            "apex_deg",
+            "side_mm",
+        ],
+    ),
     ("paper", &["size", "width_mm", "height_mm", "orientation", "margin_mm"]),
     ("class", &["groups", "names", "seed", "grid_mm"]),
 ];

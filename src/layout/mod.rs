@@ -3,26 +3,17 @@
 //! scale checks, the safety caution and, on keys, the answers and the
 //! aberration plot. Never re-traces rays for answers, never writes bytes.
 
-mod drawing;
-mod labels;
-mod plot;
 mod summary;
 mod templates;
-mod text;
 
-pub use drawing::signed;
 pub use summary::summary_scene;
 pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_template};
-pub use text::{text_box, wrap};
 
+use crate::draw::{Drawing, leading, text, wrap};
 use crate::geom::{Point, Vec2};
-use crate::kit::SheetKind;
-use crate::optics::Outcome;
 use crate::paper::PaperSpec;
-use crate::plan::{SheetPlan, fmt_mm};
 use crate::scene::{Anchor, Item, MarkerShape, Page, Rect, Scene, Stroke, Weight};
-use drawing::{Drawing, key_extras, student};
-use text::{leading, text};
+use crate::sheets::SheetPlan;
 
 /// Which of the two documents a page belongs to.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -119,8 +110,8 @@ pub fn tiling_for(length: f64, height: f64, window: &Rect) -> Tiling {
 /// How many pages one plan's student sheet takes (the key takes as many).
 pub fn pages_needed(p: &SheetPlan, paper: &PaperSpec) -> usize {
     let rg = regions(paper);
-    let s = p.setup;
-    let t = tiling_for(s.x_max - s.x_min, 2.0 * s.y_half, &rg.drawing);
+    let s = p.setup();
+    let t = tiling_for(s.length(), s.height(), &rg.drawing);
     t.columns.saturating_mul(t.rows)
 }
 
@@ -144,11 +135,7 @@ pub fn layout(kit_title: &str, plans: &[SheetPlan], paper: &PaperSpec, t: &Templ
 }
 
 fn sheet_text<'a>(p: &SheetPlan, t: &'a Templates) -> &'a templates::SheetText {
-    match p.kind {
-        SheetKind::CurvedFace => &t.curved_face,
-        SheetKind::Focal if p.is_diverging() => &t.focal_diverging,
-        SheetKind::Focal => &t.focal,
-    }
+    t.sheet(p.view().template())
 }
 
 /// A file-name stem for a plan's pages: `sheet-03` or `sheet-03-bench-a`.
@@ -160,9 +147,10 @@ pub fn page_stem(p: &SheetPlan, role: Role) -> String {
 /// The pages of one plan (several when tiled).
 pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Templates, role: Role) -> Vec<Page> {
     let rg = regions(paper);
-    let s = p.setup;
-    let length = s.x_max - s.x_min;
-    let height = 2.0 * s.y_half;
+    let s = p.setup();
+    let length = s.length();
+    let height = s.height();
+    let cy = (s.y_min + s.y_max) / 2.0;
     let tiling = tiling_for(length, height, &rg.drawing);
     let win = rg.drawing;
     // Where labels may go, in the sheet frame: the window around the centred
@@ -171,16 +159,17 @@ pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Template
         let spare_x = (win.width() - length) / 2.0;
         let spare_y = win.height() / 2.0;
         Rect {
-            min: Point::new(s.x_min - spare_x + 1.0, -spare_y + 1.0),
-            max: Point::new(s.x_max + spare_x - 1.0, spare_y - 1.0),
+            min: Point::new(s.x_min - spare_x + 1.0, cy - spare_y + 1.0),
+            max: Point::new(s.x_max + spare_x - 1.0, cy + spare_y - 1.0),
         }
     } else {
-        Rect { min: Point::new(s.x_min, -s.y_half), max: Point::new(s.x_max, s.y_half) }
+        Rect { min: Point::new(s.x_min, s.y_min), max: Point::new(s.x_max, s.y_max) }
     };
-    let mut d: Drawing = student(p, bounds);
+    let view = p.view();
+    let mut d: Drawing = view.student(bounds);
     let mut items = std::mem::take(&mut d.items);
     if role == Role::Key {
-        items.extend(key_extras(p, &mut d, bounds));
+        items.extend(view.key(&mut d, bounds));
     }
     let mut pages = Vec::new();
     for row in 0..tiling.rows {
@@ -189,14 +178,14 @@ pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Template
             let (ox, oy) = if tiling.columns == 1 && tiling.rows == 1 {
                 // Centred in the window.
                 let ox = win.min.x + (win.width() - length) / 2.0 - s.x_min;
-                (ox, (win.min.y + win.max.y) / 2.0)
+                (ox, (win.min.y + win.max.y) / 2.0 - cy)
             } else {
                 let wx0 = s.x_min + col as f64 * (win.width() - TILE_OVERLAP_MM);
                 let ox = win.min.x - wx0;
                 let oy = if tiling.rows == 1 {
-                    (win.min.y + win.max.y) / 2.0
+                    (win.min.y + win.max.y) / 2.0 - cy
                 } else {
-                    let wy_top = s.y_half - row as f64 * (win.height() - TILE_OVERLAP_MM);
+                    let wy_top = s.y_max - row as f64 * (win.height() - TILE_OVERLAP_MM);
                     win.max.y - wy_top
                 };
                 (ox, oy)
@@ -225,19 +214,20 @@ pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Template
 /// Join marks in the overlap between tiles, in the sheet frame: a cross in a
 /// ring at the top and bottom of every overlap, so neighbouring tiles line up.
 fn join_marks(p: &SheetPlan, tiling: &Tiling, win: &Rect) -> Vec<Item> {
-    let s = p.setup;
+    let s = p.setup();
     let mut out = Vec::new();
     let stroke = Stroke::solid(0.25);
     for col in 1..tiling.columns {
         let x = s.x_min + col as f64 * (win.width() - TILE_OVERLAP_MM) + TILE_OVERLAP_MM / 2.0;
-        for y in [s.y_half - 4.0, -(s.y_half - 4.0)] {
-            let at = Point::new(x, y.clamp(-win.height() / 2.0 + 4.0, win.height() / 2.0 - 4.0));
+        let cy = (s.y_min + s.y_max) / 2.0;
+        for y in [s.y_max - 4.0, s.y_min + 4.0] {
+            let at = Point::new(x, y.clamp(cy - win.height() / 2.0 + 4.0, cy + win.height() / 2.0 - 4.0));
             out.push(Item::Marker { at, shape: MarkerShape::Cross, size_mm: 7.0, stroke });
             out.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 4.0, stroke });
         }
     }
     for row in 1..tiling.rows {
-        let y = s.y_half - row as f64 * (win.height() - TILE_OVERLAP_MM) - TILE_OVERLAP_MM / 2.0;
+        let y = s.y_max - row as f64 * (win.height() - TILE_OVERLAP_MM) - TILE_OVERLAP_MM / 2.0;
         for x in [s.x_min + 6.0, s.x_max - 6.0] {
             out.push(Item::Marker { at: Point::new(x, y), shape: MarkerShape::Cross, size_mm: 7.0, stroke });
             out.push(Item::Marker { at: Point::new(x, y), shape: MarkerShape::Ring, size_mm: 4.0, stroke });
@@ -306,7 +296,7 @@ fn header(
     // The subtitle fits left of the identity box: 8 pt, else two lines of 7 pt.
     let subtitle = format!(
         "{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}",
-        p.entry.as_str()
+        p.view().entry_words()
     );
     let room = bx.min.x - 3.0 - left;
     if crate::font::text_width_mm(&subtitle, BODY_PT, Weight::Regular) <= room {
@@ -350,57 +340,7 @@ fn caution(r: &Rect, t: &Templates) -> Vec<Item> {
 
 fn fill(template: &str, p: &SheetPlan) -> String {
     let piece = p.piece_label.clone().unwrap_or_else(|| format!("piece {}", p.piece_id));
-    template.replace("{piece}", &piece).replace("{entry}", p.entry.as_str())
-}
-
-fn f1(v: f64) -> String {
-    format!("{:.1}", v + 0.0)
-}
-
-fn key_values(p: &SheetPlan) -> Vec<String> {
-    let px = &p.paraxial;
-    let mut v = Vec::new();
-    let mm = |x: Option<f64>| x.map(|x| format!("{} mm", f1(x))).unwrap_or_else(|| "none".into());
-    let front = match px.front_focal_mm() {
-        Some(d) if d < 0.0 => {
-            format!("the front focal point lies {} after the entry face (virtual)", mm(Some(-d)))
-        }
-        d => format!("front focal distance {} before the entry face", mm(d)),
-    };
-    v.push(format!(
-        "Lens maker's formula (thin lens): f = {}. Thick piece: focal length (EFL) {}, back focal length (BFL) {} from the exit face; {front}.",
-        mm(px.thin_lens_focal_mm()),
-        mm(px.efl_mm()),
-        mm(px.bfl_mm()),
-    ));
-    match px.efl_mm() {
-        Some(f) if f < 0.0 => v.push(format!(
-            "Diverging: the rays seem to come from a virtual focus {} before the exit face. A ruler from the exit face to where the dashed lines meet measures |BFL|; the focal length {} is counted from the rear principal plane.",
-            mm(px.bfl_mm().map(f64::abs)),
-            mm(Some(f))
-        )),
-        Some(f) => v.push(format!(
-            "A ruler from the exit face to where near-axis rays cross measures the BFL ({}); the focal length {} is counted from the rear principal plane ({} from the exit face).",
-            mm(px.bfl_mm()),
-            mm(Some(f)),
-            mm(px.rear_principal_mm())
-        )),
-        None => {}
-    }
-    if let Some(b) = &p.band {
-        v.push(format!(
-            "Safe band {}–{} mm from the axis: {}; {}.",
-            f1(b.min_mm),
-            f1(b.max_mm),
-            b.min_reason,
-            b.max_reason
-        ));
-    }
-    v.push(format!(
-        "Tolerances: ±{} mm across the ray divided by tan(angle to the axis); crossings are exact Snell's-law traces.",
-        fmt_mm(p.rules.across_error_mm())
-    ));
-    v
+    template.replace("{piece}", &piece).replace("{entry}", &p.view().entry_words())
 }
 
 fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
@@ -415,9 +355,10 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
                 .collect(),
             BODY_PT,
         ),
-        Role::Key => {
-            (key_values(p).iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(), 6.8)
-        }
+        Role::Key => (
+            p.view().key_lines().iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(),
+            6.8,
+        ),
     };
     let lead = leading(size);
     for l in &lines {
@@ -425,11 +366,11 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
         y -= lead;
     }
     // The measurement table.
-    let order = p.rays_top_down();
-    let rows = order.len() + 1;
+    let rows_text = p.view().table_rows(role == Role::Key);
+    let rows = rows_text.len() + 1;
     let avail = y - r.min.y - 1.0;
     let row_h = (avail / rows as f64).clamp(3.6, 6.0);
-    let widths = [0.09, 0.17, 0.47, 0.27];
+    let widths = p.view().table_widths();
     let mut x = r.min.x;
     let xs: Vec<f64> = widths
         .iter()
@@ -462,39 +403,11 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
         }
         out.push(text(Point::new(xs[j] + 1.0, cell(0)), &label, tsize, Weight::Bold, Anchor::Start));
     }
-    for (k, ray) in order.into_iter().enumerate() {
+    for (k, row) in rows_text.iter().enumerate() {
         let yy = cell(k + 1);
-        out.push(text(Point::new(xs[0] + 1.0, yy), &ray.letter, tsize, Weight::Regular, Anchor::Start));
-        out.push(text(
-            Point::new(xs[1] + 1.0, yy),
-            &signed(ray.height_mm),
-            tsize,
-            Weight::Regular,
-            Anchor::Start,
-        ));
-        if role == Role::Key {
-            let (reference, _) = p.measure_from();
-            let tol = |r: &crate::plan::RayAnswer| match (r.graded, r.tolerance_mm) {
-                (true, Some(t)) => format!(" ± {}", f1(t)),
-                _ => String::new(),
-            };
-            let (value, note) = match (ray.trace.outcome, ray.crossing_from_entry_mm) {
-                (Outcome::Crosses { .. }, Some(x)) => {
-                    (format!("{}{} mm", f1(x - reference), tol(ray)), "crosses")
-                }
-                (Outcome::Virtual { .. }, Some(x)) => {
-                    (format!("{}{} mm", f1(p.outline.t() - x), tol(ray)), "virtual: traced back")
-                }
-                (Outcome::OnAxis, _) => ("on the axis: no crossing".to_string(), "straight through"),
-                (o, _) => ("no crossing".to_string(), o.as_str()),
-            };
-            let note = if ray.crossing_from_entry_mm.is_some() && !ray.graded {
-                "near the axis: not graded".to_string()
-            } else {
-                note.replace('-', " ")
-            };
-            out.push(text(Point::new(xs[2] + 1.0, yy), &value, tsize, Weight::Bold, Anchor::Start));
-            out.push(text(Point::new(xs[3] + 1.0, yy), &note, tsize, Weight::Regular, Anchor::Start));
+        for (j, cell_text) in row.iter().enumerate().take(xs.len()) {
+            let weight = if j == 2 && role == Role::Key { Weight::Bold } else { Weight::Regular };
+            out.push(text(Point::new(xs[j] + 1.0, yy), cell_text, tsize, weight, Anchor::Start));
         }
     }
     out
@@ -570,16 +483,13 @@ fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, 
     if tile.1.pages() > 1 {
         out.extend(tile_map(tile.0, tile.1, &upper));
     } else if role == Role::Key && upper.height() > 20.0 {
-        out.extend(plot::aberration_plot(p, upper));
-    } else if role == Role::Student && p.kind == SheetKind::Focal {
-        let msg = if p.is_diverging() {
-            "Virtual focus you found: ______ mm before the exit face"
-        } else {
-            "Where the rays meet: ______ mm from the exit face"
-        };
+        out.extend(p.view().key_plot(upper));
+    } else if role == Role::Student
+        && let Some(msg) = p.view().student_note()
+    {
         out.push(text(
             Point::new(upper.min.x, upper.min.y + 6.0),
-            msg,
+            &msg,
             BODY_PT,
             Weight::Regular,
             Anchor::Start,

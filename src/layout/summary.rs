@@ -1,12 +1,12 @@
 //! The class summary as pages: one table of every group, variant, sheet,
 //! guide heights, predicted crossings with tolerances and focal lengths.
 
-use super::text::text;
-use super::{regions, signed};
+use super::regions;
+use crate::draw::text;
 use crate::geom::Point;
 use crate::paper::PaperSpec;
-use crate::plan::ClassPlan;
 use crate::scene::{Anchor, Item, Page, Scene, Stroke, Weight};
+use crate::sheets::ClassPlan;
 
 /// The summary document.
 pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> Scene {
@@ -16,15 +16,15 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
     let row_h = 4.6;
     let size = 7.0;
     let cols: [(&str, f64); 9] = [
-        ("Group", 0.16),
+        ("Group", 0.15),
         ("Variant", 0.07),
         ("Sheet", 0.05),
-        ("Piece, entry", 0.14),
+        ("Piece, entry", 0.13),
         ("Ray", 0.04),
-        ("Height", 0.08),
-        ("Predicted crossing", 0.3),
-        ("Thin f / EFL", 0.09),
-        ("BFL", 0.07),
+        ("Guide", 0.08),
+        ("Predicted (accept range)", 0.28),
+        ("Sheet values", 0.13),
+        ("", 0.07),
     ];
     let mut xs = Vec::new();
     let mut x = area.min.x;
@@ -35,41 +35,19 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
     let mut rows: Vec<[String; 9]> = Vec::new();
     for plans in &class.plans {
         for p in plans {
-            for (k, r) in p.rays_top_down().into_iter().enumerate() {
+            for (k, cells) in p.view().summary_cells().into_iter().enumerate() {
                 let first = k == 0;
-                let (ref_x, ref_words) = p.measure_from();
-                let tol = match (r.graded, r.tolerance_mm) {
-                    (true, Some(t)) => format!(" ± {t:.1}"),
-                    _ => String::new(),
-                };
-                let crossing = match r.crossing_from_entry_mm {
-                    Some(x) if x < p.outline.t() && ref_x > 0.0 => {
-                        format!("{:.1}{tol} before the exit face", p.outline.t() - x)
-                    }
-                    Some(x) => format!("{:.1}{tol} {ref_words}", x - ref_x),
-                    None => r.trace.outcome.as_str().to_string(),
-                };
-                let crossing = if r.crossing_from_entry_mm.is_some() && !r.graded {
-                    format!("{crossing} (not graded)")
-                } else {
-                    crossing
-                };
-                let opt =
-                    |v: Option<f64>| v.map(|v| format!("{:.1}", v + 0.0)).unwrap_or_else(|| "none".into());
+                let [ray, guide, predicted, facts, more] = cells;
                 rows.push([
                     if first { p.group.clone().unwrap_or_default() } else { String::new() },
                     if first { p.variant.clone().unwrap_or_default() } else { String::new() },
                     if first { p.number.to_string() } else { String::new() },
-                    if first { format!("{}, {}", p.piece_id, p.entry.as_str()) } else { String::new() },
-                    r.letter.clone(),
-                    signed(r.height_mm),
-                    crossing,
-                    if first {
-                        format!("{} / {}", opt(p.paraxial.thin_lens_focal_mm()), opt(p.paraxial.efl_mm()))
-                    } else {
-                        String::new()
-                    },
-                    if first { opt(p.paraxial.bfl_mm()) } else { String::new() },
+                    if first { format!("{}, {}", p.piece_id, p.view().entry_words()) } else { String::new() },
+                    ray,
+                    guide,
+                    predicted,
+                    if first { facts } else { String::new() },
+                    if first { more } else { String::new() },
                 ]);
             }
         }

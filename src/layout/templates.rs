@@ -31,33 +31,37 @@ pub struct CommonText {
 /// All templates, parsed.
 #[derive(Debug, Clone)]
 pub struct Templates {
-    /// Curved-face sheets.
-    pub curved_face: SheetText,
-    /// Focal sheets, converging piece.
-    pub focal: SheetText,
-    /// Focal sheets, diverging piece.
-    pub focal_diverging: SheetText,
+    /// Sheet text by template file name (`curved-face.toml`, `block.toml`, …).
+    pub sheets: std::collections::BTreeMap<&'static str, SheetText>,
     /// Every sheet.
     pub common: CommonText,
 }
 
-const CURVED: &str = include_str!("../../templates/curved-face.toml");
-const FOCAL: &str = include_str!("../../templates/focal.toml");
-const DIVERGING: &str = include_str!("../../templates/focal-diverging.toml");
-const COMMON: &str = include_str!("../../templates/common.toml");
+/// The template files, as named in `templates/`, with their shipped text.
+const SHIPPED: &[(&str, &str)] = &[
+    ("curved-face.toml", include_str!("../../templates/curved-face.toml")),
+    ("focal.toml", include_str!("../../templates/focal.toml")),
+    ("focal-diverging.toml", include_str!("../../templates/focal-diverging.toml")),
+    ("block.toml", include_str!("../../templates/block.toml")),
+    ("prism.toml", include_str!("../../templates/prism.toml")),
+    ("prism-turn.toml", include_str!("../../templates/prism-turn.toml")),
+    ("common.toml", include_str!("../../templates/common.toml")),
+];
 
 /// The template files, as named in `templates/`.
-pub const FILES: &[&str] = &["curved-face.toml", "focal.toml", "focal-diverging.toml", "common.toml"];
+pub const FILES: &[&str] = &[
+    "curved-face.toml",
+    "focal.toml",
+    "focal-diverging.toml",
+    "block.toml",
+    "prism.toml",
+    "prism-turn.toml",
+    "common.toml",
+];
 
 /// The shipped text of a template file (`None` for an unknown name).
 pub fn shipped_text(name: &str) -> Option<&'static str> {
-    match name {
-        "curved-face.toml" => Some(CURVED),
-        "focal.toml" => Some(FOCAL),
-        "focal-diverging.toml" => Some(DIVERGING),
-        "common.toml" => Some(COMMON),
-        _ => None,
-    }
+    SHIPPED.iter().find(|(n, _)| *n == name).map(|(_, t)| *t)
 }
 
 /// Most instruction lines a sheet has room for.
@@ -96,7 +100,7 @@ fn check_sheet(t: &SheetText, shown: &str) -> Result<(), String> {
     }
     if t.columns.len() != 4 {
         return Err(format!(
-            "{shown}: field `columns`: the measurement table has 4 columns (ray, height, crossing, check); {} were given",
+            "{shown}: field `columns`: the measurement table has 4 columns; {} were given",
             t.columns.len()
         ));
     }
@@ -142,12 +146,20 @@ impl Templates {
         ] {
             printable(v, &shown, field)?;
         }
-        Ok(Templates {
-            curved_face: sheet("curved-face.toml")?,
-            focal: sheet("focal.toml")?,
-            focal_diverging: sheet("focal-diverging.toml")?,
-            common,
-        })
+        let mut sheets = std::collections::BTreeMap::new();
+        for name in FILES.iter().filter(|n| **n != "common.toml") {
+            sheets.insert(*name, sheet(name)?);
+        }
+        Ok(Templates { sheets, common })
+    }
+
+    /// The text of one sheet template. A name not in [`FILES`] is a bug in a
+    /// sheet kind; the shipped curved-face text stands in for it.
+    pub fn sheet(&self, name: &str) -> &SheetText {
+        self.sheets
+            .get(name)
+            .or_else(|| self.sheets.values().next())
+            .expect("the shipped templates are parsed")
     }
 }
 
@@ -163,8 +175,8 @@ mod tests {
     fn overrides_replace_one_file_and_are_checked() {
         let mine = "heading = \"Brechung\"\ninstructions = [\"1. Prüfen\"]\ncolumns = [\"a\", \"b\", \"c\", \"d\"]\n";
         let t = super::Templates::with_overrides(&one("curved-face.toml", mine)).unwrap();
-        assert_eq!(t.curved_face.heading, "Brechung");
-        assert_eq!(t.focal.columns.len(), 4);
+        assert_eq!(t.sheet("curved-face.toml").heading, "Brechung");
+        assert_eq!(t.sheet("focal.toml").columns.len(), 4);
         let bad = super::Templates::with_overrides(&one(
             "focal.toml",
             "heading = \"x\"\ninstructions = []\ncolumns = [\"a\"]\n",
@@ -182,7 +194,9 @@ mod tests {
     #[test]
     fn shipped_templates_parse() {
         let t = super::Templates::shipped().unwrap();
-        assert!(!t.curved_face.instructions.is_empty());
-        assert_eq!(t.focal.columns.len(), 4);
+        for name in super::FILES.iter().filter(|n| **n != "common.toml") {
+            assert!(!t.sheet(name).instructions.is_empty(), "{name}");
+            assert_eq!(t.sheet(name).columns.len(), 4, "{name}");
+        }
     }
 }

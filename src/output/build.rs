@@ -5,9 +5,9 @@ use super::{answers, summary};
 use crate::kit::Kit;
 use crate::layout::{self, Templates};
 use crate::paper::PaperSpec;
-use crate::plan::{ClassPlan, SheetPlan};
 use crate::render::{RenderError, render_pdf, render_svg_page};
 use crate::scene::Scene;
+use crate::sheets::{ClassPlan, SheetPlan};
 
 /// Which kinds of file a build writes besides the answer file (and, for a
 /// class set, the summary CSV).

@@ -1,62 +1,48 @@
-//! The class summary as CSV: one row per guide ray of every group's sheets.
+//! The class summary as CSV: one row per guide ray of every group's sheets,
+//! with the columns of every kind in the class (blank where a kind has none).
 
-use crate::plan::ClassPlan;
+use crate::sheets::ClassPlan;
 
 /// Quotes a CSV field when it needs it (RFC 4180).
 fn field(s: &str) -> String {
     if s.contains([',', '"', '\n', '\r']) { format!("\"{}\"", s.replace('"', "\"\"")) } else { s.to_string() }
 }
 
-fn num(v: Option<f64>) -> String {
-    v.map(|x| format!("{:.3}", x + 0.0)).unwrap_or_default()
-}
+/// Columns every row has.
+pub const COMMON_COLUMNS: &[&str] = &["group", "variant", "sheet", "kind", "piece", "enter"];
 
-/// Column headings of `summary.csv`.
-pub const COLUMNS: &[&str] = &[
-    "group",
-    "variant",
-    "sheet",
-    "kind",
-    "piece",
-    "enter",
-    "ray",
-    "height_mm",
-    "outcome",
-    "crossing_from_entry_mm",
-    "crossing_from_exit_mm",
-    "tolerance_mm",
-    "graded",
-    "thin_lens_focal_mm",
-    "efl_mm",
-    "bfl_mm",
-];
-
-/// The summary rows as CSV text (UTF-8, comma-separated, values in mm to 0.001).
+/// The summary rows as CSV text (UTF-8, comma-separated, lengths in mm and
+/// angles in degrees to 0.001). The kinds' own columns follow the common ones,
+/// in the order the kinds name them, each once.
 pub fn summary_csv(class: &ClassPlan) -> String {
-    let mut s = COLUMNS.join(",");
+    let mut columns: Vec<&'static str> = COMMON_COLUMNS.to_vec();
+    for p in class.plans.iter().flatten() {
+        for row in p.view().summary_rows() {
+            for (name, _) in row {
+                if !columns.contains(&name) {
+                    columns.push(name);
+                }
+            }
+        }
+    }
+    let mut s = columns.join(",");
     s.push('\n');
     for plans in &class.plans {
         for p in plans {
-            for r in p.rays_top_down() {
-                let row = [
+            for row in p.view().summary_rows() {
+                let common = [
                     field(p.group.as_deref().unwrap_or("")),
                     field(p.variant.as_deref().unwrap_or("")),
                     p.number.to_string(),
                     p.kind.as_str().to_string(),
                     field(&p.piece_id),
-                    p.entry.as_str().to_string(),
-                    field(&r.letter),
-                    format!("{:.3}", r.height_mm + 0.0),
-                    r.trace.outcome.as_str().to_string(),
-                    num(r.crossing_from_entry_mm),
-                    num(r.crossing_from_exit_mm),
-                    num(r.tolerance_mm),
-                    r.graded.to_string(),
-                    num(p.paraxial.thin_lens_focal_mm()),
-                    num(p.paraxial.efl_mm()),
-                    num(p.paraxial.bfl_mm()),
+                    p.enter.as_str().to_string(),
                 ];
-                s.push_str(&row.join(","));
+                let mut cells: Vec<String> = common.to_vec();
+                for c in &columns[COMMON_COLUMNS.len()..] {
+                    cells.push(row.iter().find(|(n, _)| n == c).map(|(_, v)| field(v)).unwrap_or_default());
+                }
+                s.push_str(&cells.join(","));
                 s.push('\n');
             }
         }

@@ -1,15 +1,13 @@
 //! Ray letters: the name each guide ray goes by on the sheet, the key, the
 //! class summary and in the answer file, given once when the plan is made.
 
-use super::{RayAnswer, SheetPlan};
-
 /// Letters for guide rays, top to bottom. I is left out: on a sheet it reads
 /// as 1 or l. Past the tenth ray the letters start again at A.
 pub const RAY_LETTERS: &[u8] = b"ABCDEFGHJK";
 
 /// Positions of `heights` from the highest to the lowest; equal heights keep
 /// their given order.
-fn top_down(heights: &[f64]) -> Vec<usize> {
+pub fn top_down(heights: &[f64]) -> Vec<usize> {
     let mut idx: Vec<usize> = (0..heights.len()).collect();
     idx.sort_by(|&a, &b| heights[b].total_cmp(&heights[a]));
     idx
@@ -23,15 +21,6 @@ pub fn ray_letters(heights: &[f64]) -> Vec<String> {
         letters[i] = char::from(RAY_LETTERS[k % RAY_LETTERS.len()]).to_string();
     }
     letters
-}
-
-impl SheetPlan {
-    /// The rays from the top down: the order their letters run in, and the
-    /// order of every table that lists them.
-    pub fn rays_top_down(&self) -> Vec<&RayAnswer> {
-        let heights: Vec<f64> = self.rays.iter().map(|r| r.height_mm).collect();
-        top_down(&heights).into_iter().map(|i| &self.rays[i]).collect()
-    }
 }
 
 #[cfg(test)]

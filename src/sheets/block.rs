@@ -1,9 +1,22 @@
 //! The rectangular-block sheet's optics: a guide ray into the middle of the
 //! entry face, its angle of refraction and its lateral shift.
 
-use super::angled::{AngledSetup, Expected};
+use std::fmt::Write;
+
+use serde_json::json;
+
+use super::angled::{AngleRange, AngleRules, AngledPlan, AngledSetup, Expected, spread_in_band};
+use super::angled_view::{self as av, angle, with_range};
+use super::{
+    Choice, Detail, Enter, Kind, Prepared, Setup, SheetKind, SheetPlan, SheetSpec, SheetView, SummaryRow,
+};
+use crate::draw::Drawing;
 use crate::geom::{Point, Vec2};
-use crate::optics::{Block, BlockFace};
+use crate::kit::{Kit, KitError, SheetEntry};
+use crate::optics::{Block, BlockFace, Piece};
+use crate::paper::PaperSpec;
+use crate::plan::scan::{Band, grid_values};
+use crate::scene::{Item, Rect};
 
 /// Length of the printed guide line before the entry point, mm.
 pub const LEAD_MM: f64 = 60.0;
@@ -26,6 +39,304 @@ pub fn setup(block: &Block) -> AngledSetup<BlockFace> {
         expected: Expected::Refract { exit: BlockFace::Exit },
         lead_mm: LEAD_MM,
         out_mm: OUT_MM,
+    }
+}
+
+/// The block kind.
+pub struct BlockKind;
+/// The block kind, for the kind list.
+pub static KIND: BlockKind = BlockKind;
+
+/// Angles of incidence a block sheet scans for its band, degrees.
+const RANGE: AngleRange = AngleRange { from: 0.0, to: 89.0, prefer: 45.0, need_shift: true };
+/// Step of the angles class variants are drawn from, degrees.
+const STEP_DEG: f64 = 1.0;
+/// Least difference between two rays' angles on one sheet, degrees.
+const MIN_APART_DEG: f64 = 8.0;
+
+impl Kind for BlockKind {
+    fn word(&self) -> &'static str {
+        "block"
+    }
+    fn title(&self) -> &'static str {
+        "Sideways shift through a rectangular block"
+    }
+    fn fields(&self) -> &'static [&'static str] {
+        &["angles_deg"]
+    }
+    fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
+        let kp = &kit.pieces[s.piece];
+        if !matches!(kp.piece, Piece::Block(_)) {
+            return Err(s.kind.at.error(
+                format!(
+                    "a block sheet needs a rectangular block; piece `{}` is a {}",
+                    kp.id,
+                    kp.piece.shape_word()
+                ),
+                "give a piece with shape = \"block\", or choose another kind of sheet for this piece",
+            ));
+        }
+        let angles = av::check_angles(s, 0.0, 89.9)?;
+        Ok(SheetSpec {
+            number: s.number,
+            kind: SheetKind::Block,
+            piece: s.piece,
+            enter: Enter::Side,
+            vary_entry: false,
+            heights_mm: None,
+            angles_deg: angles,
+            line: s.at.line(),
+        })
+    }
+    fn prepare<'a>(
+        &self,
+        kit: &'a Kit,
+        spec: &'a SheetSpec,
+        _paper: &'a PaperSpec,
+    ) -> Box<dyn Prepared + 'a> {
+        let Piece::Block(block) = kit.pieces[spec.piece].piece else {
+            unreachable!("a checked block sheet's piece is a block")
+        };
+        let rules = AngleRules::for_ray_width(kit.ray_box.ray_width_mm);
+        let s = setup(&block);
+        let band = s.band(&rules, RANGE.from, RANGE.to, RANGE.prefer, RANGE.need_shift);
+        Box::new(BlockPrepared { kit, spec, block, rules, band })
+    }
+}
+
+/// The default angles: the textbook 30°, 45° and 60° where the band has them,
+/// else three spread across the band.
+fn default_angles(band: Option<&Band<super::angled::AngleLimit>>) -> Vec<f64> {
+    let textbook: Vec<f64> =
+        [30.0, 45.0, 60.0].into_iter().filter(|a| band.is_some_and(|b| b.contains(*a))).collect();
+    if textbook.len() >= 2 {
+        return textbook;
+    }
+    let spread = spread_in_band(band, &[0.15, 0.5, 0.85], STEP_DEG);
+    if spread.is_empty() { vec![30.0, 45.0, 60.0] } else { spread }
+}
+
+struct BlockPrepared<'a> {
+    kit: &'a Kit,
+    spec: &'a SheetSpec,
+    block: Block,
+    rules: AngleRules,
+    band: Option<Band<super::angled::AngleLimit>>,
+}
+
+impl Prepared for BlockPrepared<'_> {
+    fn choices(&self) -> Vec<Choice> {
+        if self.spec.angles_deg.is_some() {
+            return Vec::new();
+        }
+        let Some(b) = &self.band else { return Vec::new() };
+        // Three angles a whole number of degrees, at least 8° apart, one in each
+        // third of the band so every group sees small, middle and large angles.
+        let grid = grid_values(b.min, b.max, STEP_DEG);
+        let third = b.width() / 3.0;
+        let part = |k: f64| {
+            grid.iter()
+                .copied()
+                .filter(move |v| *v >= b.min + k * third - 1e-9 && *v <= b.min + (k + 1.0) * third + 1e-9)
+        };
+        let mut out = Vec::new();
+        for lo in part(0.0) {
+            for mid in part(1.0).filter(|m| m - lo >= MIN_APART_DEG) {
+                for hi in part(2.0).filter(|h| h - mid >= MIN_APART_DEG) {
+                    out.push(Choice { enter: Enter::Side, values: vec![lo, mid, hi] });
+                }
+            }
+        }
+        out
+    }
+
+    fn notes(&self, groups: usize) -> Vec<String> {
+        let n = self.spec.number;
+        if self.spec.angles_deg.is_some() {
+            return vec![format!("sheet {n} has fixed angles_deg, so every group gets the same angles")];
+        }
+        let options = self.choices().len();
+        if options == 0 {
+            vec![format!(
+                "sheet {n}: no angle of incidence qualifies, so every group gets the default angles"
+            )]
+        } else if options < groups {
+            vec![format!(
+                "sheet {n}: the safe band has room for only {options} different setting(s) for {groups} groups"
+            )]
+        } else {
+            Vec::new()
+        }
+    }
+
+    fn plan(&self, choice: Option<&Choice>) -> SheetPlan {
+        let angles = choice.map(|c| c.values.clone()).or_else(|| self.spec.angles_deg.clone());
+        let plan =
+            AngledPlan::in_band(setup(&self.block), self.rules, self.band, angles.as_deref(), default_angles);
+        let kp = &self.kit.pieces[self.spec.piece];
+        let warnings = angle_warnings(&plan);
+        let (lo, hi) = super::angled_drawing::extent(&plan);
+        let view = BlockPlan {
+            block: self.block,
+            plan,
+            setup: Setup { x_min: lo.x, x_max: hi.x, y_min: lo.y, y_max: hi.y },
+        };
+        SheetPlan {
+            number: self.spec.number,
+            kind: SheetKind::Block,
+            piece_id: kp.id.clone(),
+            piece_label: kp.label.clone(),
+            enter: Enter::Side,
+            index: self.block.index,
+            group: None,
+            variant: None,
+            warnings,
+            detail: Detail::Block(Box::new(view)),
+        }
+    }
+}
+
+/// Warnings for rays outside the band or off the expected path.
+pub fn angle_warnings<F: av::FaceName>(plan: &AngledPlan<F>) -> Vec<String> {
+    let mut w = Vec::new();
+    if plan.band.is_none() {
+        w.push("no angle of incidence qualifies on this piece; check its size and the ray width".to_string());
+    }
+    for r in &plan.rays {
+        if !r.path_ok {
+            w.push(format!(
+                "ray {} at {}: {} (not the path the sheet measures)",
+                r.letter,
+                angle(r.incidence_deg),
+                av::outcome(plan, r).replace('-', " ")
+            ));
+        } else if let (false, Some((b, (lo, hi)))) =
+            (r.in_band, plan.band.as_ref().zip(plan.band_words.as_ref()))
+        {
+            let why = if r.incidence_deg < b.min { lo } else { hi };
+            w.push(format!(
+                "ray {} at {} lies outside the safe band {:.1}°–{:.1}°: {why}",
+                r.letter,
+                angle(r.incidence_deg),
+                b.min,
+                b.max
+            ));
+        }
+    }
+    w
+}
+
+/// A planned block sheet.
+#[derive(Clone, Debug, PartialEq)]
+pub struct BlockPlan {
+    /// The block.
+    pub block: Block,
+    /// Its rays and band.
+    pub plan: AngledPlan<BlockFace>,
+    /// What must be on paper.
+    pub setup: Setup,
+}
+
+impl SheetView for BlockPlan {
+    fn extent(&self) -> Setup {
+        self.setup
+    }
+    fn student(&self, bounds: Rect) -> Drawing {
+        let mut d = Drawing::default();
+        d.items = super::angled_drawing::student(&self.plan, &bounds, &mut d.placer);
+        d
+    }
+    fn key(&self, base: &mut Drawing, bounds: Rect) -> Vec<Item> {
+        super::angled_drawing::key(&self.plan, &bounds, &mut base.placer)
+    }
+    fn template(&self) -> &'static str {
+        "block.toml"
+    }
+    fn entry_words(&self) -> String {
+        "entry".to_string()
+    }
+    fn table_widths(&self) -> [f64; 4] {
+        [0.09, 0.21, 0.35, 0.35]
+    }
+    fn table_rows(&self, key: bool) -> Vec<Vec<String>> {
+        self.plan
+            .rays
+            .iter()
+            .map(|r| {
+                let mut row = vec![r.letter.clone(), angle(r.incidence_deg)];
+                if key {
+                    row.push(with_range(&r.refraction_deg, r.tolerance_deg, "°"));
+                    row.push(with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm"));
+                }
+                row
+            })
+            .collect()
+    }
+    fn key_lines(&self) -> Vec<String> {
+        let b = &self.block;
+        let mut v = vec![format!(
+            "Snell's law at the entry face: sin i = n sin r with n = {}. The faces are parallel, so the ray leaves at i again, parallel to the incoming ray, shifted sideways by d = t·sin(i − r)/cos r with t = {} mm.",
+            b.index, b.thickness_mm
+        )];
+        if let (Some(band), Some((lo, hi))) = (&self.plan.band, &self.plan.band_words) {
+            v.push(format!("Safe band i = {:.1}°–{:.1}°: {lo}; {hi}.", band.min, band.max));
+        }
+        v.push(format!(
+            "Accept ranges: angles ±{:.1}° or more (a ±0.5° protractor reading plus a ±{:.1} mm slip at each end of the line drawn); shift ±{:.1} mm (the ray's line placed to ±{:.1} mm, a ruler read to ±0.5 mm).",
+            self.plan.rays.iter().map(|r| r.tolerance_deg).fold(f64::INFINITY, f64::min).min(99.0),
+            self.plan.rules.across_error_mm(),
+            self.plan.rules.across_error_mm() + self.plan.rules.ruler_mm,
+            self.plan.rules.across_error_mm()
+        ));
+        v
+    }
+    fn key_plot(&self, _rect: Rect) -> Vec<Item> {
+        Vec::new()
+    }
+    fn student_note(&self) -> Option<String> {
+        Some(format!(
+            "Index from your angles, n = sin i / sin r: ______ (the block is {} mm thick)",
+            self.block.thickness_mm
+        ))
+    }
+    fn answers(&self) -> serde_json::Value {
+        json!({
+            "thickness_mm": self.block.thickness_mm,
+            "safe_band_deg": av::band_json(&self.plan),
+            "rays": av::rays_json(&self.plan, true),
+        })
+    }
+    fn summary_rows(&self) -> Vec<SummaryRow> {
+        av::summary_rows(&self.plan, true)
+    }
+    fn summary_cells(&self) -> Vec<[String; 5]> {
+        self.plan
+            .rays
+            .iter()
+            .map(|r| {
+                [
+                    r.letter.clone(),
+                    angle(r.incidence_deg),
+                    format!(
+                        "r {}, d {}",
+                        with_range(&r.refraction_deg, r.tolerance_deg, "°"),
+                        with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm")
+                    ),
+                    format!("t {} mm", self.block.thickness_mm),
+                    format!("n {}", self.block.index),
+                ]
+            })
+            .collect()
+    }
+    fn report(&self) -> String {
+        let mut s = String::new();
+        let _ = writeln!(
+            s,
+            "  block {} mm thick, faces {} mm long, n = {}: d = t·sin(i − r)/cos r",
+            self.block.thickness_mm, self.block.height_mm, self.block.index
+        );
+        s.push_str(&av::report(&self.plan, true));
+        s
     }
 }
 

@@ -1,5 +1,237 @@
-//! Sheet kinds: what each kind of practical sheet measures and how.
+//! Sheet kinds. This file is the kind list: the one place that names every
+//! kind of sheet. Each kind lives in its own module and owns everything
+//! particular to it: which pieces it fits, the kit fields it reads, its rays,
+//! safe band, class variants, answers, drawings and text template. The rest of
+//! the crate asks a kind through [`Kind`] (while checking and planning) and a
+//! plan through [`SheetView`] (while laying out and writing).
+#![expect(
+    clippy::result_large_err,
+    reason = "a kit error is made at most once per run and carries its whole location; boxing it buys nothing"
+)]
 
 pub mod angled;
+mod angled_drawing;
+pub mod angled_view;
 pub mod block;
+mod class;
+pub mod lens;
 pub mod prism;
+mod spec;
+
+pub use class::{ClassPlan, plan_class};
+pub use spec::{Choice, Enter, Lesson, SheetSpec};
+
+use crate::draw::Drawing;
+use crate::kit::{Kit, KitError, SheetEntry};
+use crate::paper::PaperSpec;
+use crate::scene::{Item, Rect};
+
+/// The kinds of sheet raysheet makes.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub enum SheetKind {
+    /// Single guide rays: flat face first, refraction at the curved face.
+    CurvedFace,
+    /// The ray box's parallel beam through a converging or diverging lens shape.
+    Focal,
+    /// Lateral shift through a rectangular block.
+    Block,
+    /// Deviation through a prism; turning by total reflection in a right-angle prism.
+    Prism,
+}
+
+impl SheetKind {
+    /// Every kind, in the order the README lists them.
+    pub const ALL: [SheetKind; 4] =
+        [SheetKind::CurvedFace, SheetKind::Focal, SheetKind::Block, SheetKind::Prism];
+
+    /// The module that implements the kind.
+    pub fn def(self) -> &'static dyn Kind {
+        match self {
+            SheetKind::CurvedFace => &lens::CURVED_FACE,
+            SheetKind::Focal => &lens::FOCAL,
+            SheetKind::Block => &block::KIND,
+            SheetKind::Prism => &prism::KIND,
+        }
+    }
+
+    /// The kit-file word.
+    pub fn as_str(self) -> &'static str {
+        self.def().word()
+    }
+
+    /// A title for the sheet.
+    pub fn title(self) -> &'static str {
+        self.def().title()
+    }
+
+    /// The kind with this kit word.
+    pub fn from_word(word: &str) -> Option<SheetKind> {
+        SheetKind::ALL.into_iter().find(|k| k.as_str() == word)
+    }
+}
+
+/// What a sheet kind does before layout: check a kit's sheet table, and
+/// prepare plans (one, or one per group of a class).
+pub trait Kind: Sync {
+    /// The kit word (`kind = "…"`).
+    fn word(&self) -> &'static str;
+    /// A title for the sheet.
+    fn title(&self) -> &'static str;
+    /// The fields a sheet table of this kind accepts besides `kind` and `piece`.
+    fn fields(&self) -> &'static [&'static str];
+    /// Checks a sheet table against the kit: the piece fits, every field is
+    /// accepted and usable. Errors point at the file, line and field.
+    fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError>;
+    /// Works out what every plan of this sheet shares (safe bands, once).
+    fn prepare<'a>(&self, kit: &'a Kit, spec: &'a SheetSpec, paper: &'a PaperSpec) -> Box<dyn Prepared + 'a>;
+}
+
+/// A sheet ready to plan: the ungrouped plan, or a class variant's.
+pub trait Prepared {
+    /// Every setting a group may get, in a fixed order (empty when the sheet
+    /// has fixed values or no band).
+    fn choices(&self) -> Vec<Choice>;
+    /// Notes for the teacher about the class variants of this sheet.
+    fn notes(&self, groups: usize) -> Vec<String>;
+    /// The plan with `choice`, or the sheet's own settings with `None`.
+    fn plan(&self, choice: Option<&Choice>) -> SheetPlan;
+}
+
+/// The extent of a setup in the sheet frame: what must be on paper, mm.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Setup {
+    /// Leftmost x.
+    pub x_min: f64,
+    /// Rightmost x.
+    pub x_max: f64,
+    /// Lowest y.
+    pub y_min: f64,
+    /// Highest y.
+    pub y_max: f64,
+}
+
+impl Setup {
+    /// Length along x.
+    pub fn length(&self) -> f64 {
+        self.x_max - self.x_min
+    }
+
+    /// Height along y.
+    pub fn height(&self) -> f64 {
+        self.y_max - self.y_min
+    }
+}
+
+/// Everything one sheet (and its key) shows.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SheetPlan {
+    /// Position in the kit's sheet list, 1-based.
+    pub number: usize,
+    /// Sheet kind.
+    pub kind: SheetKind,
+    /// The piece's id.
+    pub piece_id: String,
+    /// The piece's longer name, if any.
+    pub piece_label: Option<String>,
+    /// Which face the light meets first.
+    pub enter: Enter,
+    /// The piece's index of refraction.
+    pub index: f64,
+    /// The group, for class sets.
+    pub group: Option<String>,
+    /// The variant code.
+    pub variant: Option<String>,
+    /// Things the teacher should know.
+    pub warnings: Vec<String>,
+    /// What is particular to the kind.
+    pub detail: Detail,
+}
+
+/// The kind-particular part of a plan.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Detail {
+    /// Curved-face and focal sheets.
+    Lens(Box<lens::LensPlan>),
+    /// Block sheets.
+    Block(Box<block::BlockPlan>),
+    /// Prism sheets.
+    Prism(Box<prism::PrismPlan>),
+}
+
+impl Detail {
+    /// The plan as layout and output see it.
+    pub fn view(&self) -> &dyn SheetView {
+        match self {
+            Detail::Lens(p) => p.as_ref(),
+            Detail::Block(p) => p.as_ref(),
+            Detail::Prism(p) => p.as_ref(),
+        }
+    }
+}
+
+/// One row of the class summary: column name and cell, the columns named as
+/// in the answer file.
+pub type SummaryRow = Vec<(&'static str, String)>;
+
+/// What layout and output ask of a planned sheet.
+pub trait SheetView {
+    /// What must be on paper, in the sheet frame.
+    fn extent(&self) -> Setup;
+    /// The student drawing in the sheet frame; `bounds` is where labels may go.
+    fn student(&self, bounds: Rect) -> Drawing;
+    /// What the key adds on top of the student drawing.
+    fn key(&self, base: &mut Drawing, bounds: Rect) -> Vec<Item>;
+    /// The template file with the sheet's heading, instructions and table columns.
+    fn template(&self) -> &'static str;
+    /// Words filling `{entry}` in the template and the subtitle: "the front face".
+    fn entry_words(&self) -> String;
+    /// The measurement table's rows, in letter order: every column filled on
+    /// the key, only the given values (letter, setting) on the student sheet.
+    fn table_rows(&self, key: bool) -> Vec<Vec<String>>;
+    /// The four columns' shares of the table's width.
+    fn table_widths(&self) -> [f64; 4] {
+        [0.09, 0.17, 0.47, 0.27]
+    }
+    /// The key's text: exact values, accept ranges and the safe band's reasons.
+    fn key_lines(&self) -> Vec<String>;
+    /// The key's plot in `rect` (page mm); empty when the kind has none.
+    fn key_plot(&self, rect: Rect) -> Vec<Item>;
+    /// A line for the student to fill in under the table, if any.
+    fn student_note(&self) -> Option<String>;
+    /// The kind's part of the answer file, as a JSON object.
+    fn answers(&self) -> serde_json::Value;
+    /// The class summary's rows, one per guide ray in letter order.
+    fn summary_rows(&self) -> Vec<SummaryRow>;
+    /// The class summary page's cells for each ray in letter order: letter,
+    /// guide value, predicted answer with its accept range, and two cells of
+    /// sheet-wide values (printed on the first row only).
+    fn summary_cells(&self) -> Vec<[String; 5]>;
+    /// The `check`/`solve` text for the sheet (after its heading line).
+    fn report(&self) -> String;
+}
+
+impl SheetPlan {
+    /// The kind-particular part, as layout and output see it.
+    pub fn view(&self) -> &dyn SheetView {
+        self.detail.view()
+    }
+
+    /// The lens part, for curved-face and focal sheets.
+    pub fn lens(&self) -> Option<&lens::LensPlan> {
+        match &self.detail {
+            Detail::Lens(p) => Some(p),
+            _ => None,
+        }
+    }
+
+    /// What must be on paper, in the sheet frame.
+    pub fn setup(&self) -> Setup {
+        self.view().extent()
+    }
+}
+
+/// Plans every sheet of the lesson, ungrouped: fixed values where given,
+/// defaults elsewhere.
+pub fn plan_lesson(lesson: &Lesson, paper: &PaperSpec) -> Vec<SheetPlan> {
+    lesson.sheets.iter().map(|s| s.kind.def().prepare(&lesson.kit, s, paper).plan(None)).collect()
+}

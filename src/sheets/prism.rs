@@ -2,9 +2,23 @@
 //! minimum deviation, limiting incidence) or into a right-angle prism's side or
 //! base (turned through 90° or 180° by total internal reflection).
 
-use super::angled::{AngledSetup, Expected};
+use std::fmt::Write;
+
+use serde_json::{Value, json};
+
+use super::angled::{AngleLimit, AngleRules, AngledPlan, AngledSetup, Expected, spread_in_band};
+use super::angled_view::{self as av, angle, with_range};
+use super::block::angle_warnings;
+use super::{
+    Choice, Detail, Enter, Kind, Prepared, Setup, SheetKind, SheetPlan, SheetSpec, SheetView, SummaryRow,
+};
+use crate::draw::Drawing;
 use crate::geom::{Placement, Point, Vec2};
-use crate::optics::{Prism, PrismFace};
+use crate::kit::{Kit, KitError, SheetEntry};
+use crate::optics::{Piece, Prism, PrismFace};
+use crate::paper::PaperSpec;
+use crate::plan::scan::{Band, grid_values};
+use crate::scene::{Item, Rect};
 
 /// Length of the printed guide line before the entry point, mm.
 pub const LEAD_MM: f64 = 60.0;
@@ -136,6 +150,417 @@ pub fn limiting_incidence_deg(prism: &Prism) -> Result<f64, NoValue> {
         return Err(NoValue::ApexBeyondTwiceCritical);
     }
     Ok((prism.index * (prism.apex_rad - crit).sin()).clamp(-1.0, 1.0).asin().to_degrees())
+}
+
+/// The prism kind.
+pub struct PrismKind;
+/// The prism kind, for the kind list.
+pub static KIND: PrismKind = PrismKind;
+
+/// Step of the angles class variants are drawn from, degrees.
+const STEP_DEG: f64 = 1.0;
+
+impl Kind for PrismKind {
+    fn word(&self) -> &'static str {
+        "prism"
+    }
+    fn title(&self) -> &'static str {
+        "Deviation by a prism"
+    }
+    fn fields(&self) -> &'static [&'static str] {
+        &["enter", "angles_deg"]
+    }
+    fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
+        let kp = &kit.pieces[s.piece];
+        let Piece::Prism(prism) = kp.piece else {
+            return Err(s.kind.at.error(
+                format!("a prism sheet needs a prism; piece `{}` is a {}", kp.id, kp.piece.shape_word()),
+                "give a piece with shape = \"prism\", or choose another kind of sheet for this piece",
+            ));
+        };
+        let enter = match s.word("enter")? {
+            None => Enter::Side,
+            Some(w) => match w.value.as_str() {
+                "side" => Enter::Side,
+                "base" if prism.is_right_angle() => Enter::Base,
+                "base" => {
+                    return Err(w.at.error(
+                        format!(
+                            "light enters the base only on a right-angle prism; piece `{}` has a {}° apex",
+                            kp.id,
+                            prism.apex_rad.to_degrees()
+                        ),
+                        "use enter = \"side\", or a prism with apex_deg = 90",
+                    ));
+                }
+                other => {
+                    return Err(w.at.error(
+                        format!("\"{other}\" is not a face a prism sheet enters"),
+                        "give \"side\" (in at one equal face) or \"base\" (right-angle prisms)",
+                    ));
+                }
+            },
+        };
+        let angles = av::check_angles(s, -89.9, 89.9)?;
+        Ok(SheetSpec {
+            number: s.number,
+            kind: SheetKind::Prism,
+            piece: s.piece,
+            enter,
+            vary_entry: false,
+            heights_mm: None,
+            angles_deg: angles,
+            line: s.at.line(),
+        })
+    }
+    fn prepare<'a>(
+        &self,
+        kit: &'a Kit,
+        spec: &'a SheetSpec,
+        _paper: &'a PaperSpec,
+    ) -> Box<dyn Prepared + 'a> {
+        let Piece::Prism(prism) = kit.pieces[spec.piece].piece else {
+            unreachable!("a checked prism sheet's piece is a prism")
+        };
+        let entry = if spec.enter == Enter::Base { PrismEntry::Base } else { PrismEntry::Side };
+        let rules = AngleRules::for_ray_width(kit.ray_box.ray_width_mm);
+        let s = setup(&prism, entry);
+        let prefer = match (&s.expected, minimum_deviation_deg(&prism)) {
+            (Expected::Refract { .. }, Ok((_, i))) => i,
+            _ => 0.0,
+        };
+        let band = s.band(&rules, -89.0, 89.0, prefer, false);
+        Box::new(PrismPrepared { kit, spec, prism, entry, rules, band })
+    }
+}
+
+struct PrismPrepared<'a> {
+    kit: &'a Kit,
+    spec: &'a SheetSpec,
+    prism: Prism,
+    entry: PrismEntry,
+    rules: AngleRules,
+    band: Option<Band<AngleLimit>>,
+}
+
+impl PrismPrepared<'_> {
+    fn turns(&self) -> bool {
+        self.prism.is_right_angle()
+    }
+
+    /// Default angles: for a turn, normal incidence (or the band's middle); for
+    /// deviation, up to four on a 5° grid, two each side of the minimum-deviation incidence.
+    fn defaults(&self, band: Option<&Band<AngleLimit>>) -> Vec<f64> {
+        if self.turns() {
+            return match band {
+                Some(b) if !b.contains(0.0) => vec![(b.min + b.max) / 2.0],
+                _ => vec![0.0],
+            };
+        }
+        let Some(b) = band else { return vec![30.0, 40.0, 50.0, 60.0] };
+        let grid = grid_values(b.min, b.max, 5.0);
+        let imin = minimum_deviation_deg(&self.prism).map(|(_, i)| i).unwrap_or((b.min + b.max) / 2.0);
+        let below: Vec<f64> = grid.iter().copied().filter(|v| *v < imin).collect();
+        let above: Vec<f64> = grid.iter().copied().filter(|v| *v > imin).collect();
+        let mut out: Vec<f64> = below.iter().rev().take(2).chain(above.iter().take(2)).copied().collect();
+        if out.len() < 3 {
+            out = spread_in_band(band, &[0.1, 0.4, 0.7, 0.95], STEP_DEG);
+        }
+        out.sort_by(f64::total_cmp);
+        out
+    }
+}
+
+impl Prepared for PrismPrepared<'_> {
+    fn choices(&self) -> Vec<Choice> {
+        if self.spec.angles_deg.is_some() {
+            return Vec::new();
+        }
+        let Some(b) = &self.band else { return Vec::new() };
+        let grid = grid_values(b.min, b.max, STEP_DEG);
+        let enter = self.spec.enter;
+        if self.turns() {
+            return grid.into_iter().map(|a| Choice { enter, values: vec![a] }).collect();
+        }
+        // Three angles: one at least 4° below the minimum-deviation incidence,
+        // one within 3° of it, one at least 4° above, so every group can find
+        // the minimum between its rays.
+        let imin = minimum_deviation_deg(&self.prism).map(|(_, i)| i).unwrap_or((b.min + b.max) / 2.0);
+        let mut out = Vec::new();
+        for lo in grid.iter().filter(|v| **v <= imin - 4.0) {
+            for mid in grid.iter().filter(|v| (**v - imin).abs() <= 3.0) {
+                for hi in grid.iter().filter(|v| **v >= imin + 4.0) {
+                    out.push(Choice { enter, values: vec![*lo, *mid, *hi] });
+                }
+            }
+        }
+        out
+    }
+
+    fn notes(&self, groups: usize) -> Vec<String> {
+        let n = self.spec.number;
+        if self.spec.angles_deg.is_some() {
+            return vec![format!("sheet {n} has fixed angles_deg, so every group gets the same angles")];
+        }
+        let options = self.choices().len();
+        if options == 0 {
+            vec![format!(
+                "sheet {n}: no angle of incidence qualifies, so every group gets the default angles"
+            )]
+        } else if options < groups {
+            vec![format!(
+                "sheet {n}: the safe band has room for only {options} different setting(s) for {groups} groups"
+            )]
+        } else {
+            Vec::new()
+        }
+    }
+
+    fn plan(&self, choice: Option<&Choice>) -> SheetPlan {
+        let angles = choice.map(|c| c.values.clone()).or_else(|| self.spec.angles_deg.clone());
+        let plan = AngledPlan::in_band(
+            setup(&self.prism, self.entry),
+            self.rules,
+            self.band,
+            angles.as_deref(),
+            |b| self.defaults(b),
+        );
+        let kp = &self.kit.pieces[self.spec.piece];
+        let mut warnings = angle_warnings(&plan);
+        if self.turns() && self.prism.index <= 2f64.sqrt() {
+            warnings.push(format!(
+                "n = {} is not above √2: the long face cannot reflect the ray totally at 45°",
+                self.prism.index
+            ));
+        }
+        let (lo, hi) = super::angled_drawing::extent(&plan);
+        let view = PrismPlan {
+            prism: self.prism,
+            entry: self.entry,
+            minimum_deviation: minimum_deviation_deg(&self.prism),
+            limiting_incidence: limiting_incidence_deg(&self.prism),
+            plan,
+            setup: Setup { x_min: lo.x, x_max: hi.x, y_min: lo.y, y_max: hi.y },
+        };
+        SheetPlan {
+            number: self.spec.number,
+            kind: SheetKind::Prism,
+            piece_id: kp.id.clone(),
+            piece_label: kp.label.clone(),
+            enter: self.spec.enter,
+            index: self.prism.index,
+            group: None,
+            variant: None,
+            warnings,
+            detail: Detail::Prism(Box::new(view)),
+        }
+    }
+}
+
+/// A planned prism sheet.
+#[derive(Clone, Debug, PartialEq)]
+pub struct PrismPlan {
+    /// The prism.
+    pub prism: Prism,
+    /// Where the light enters.
+    pub entry: PrismEntry,
+    /// (δmin, incidence giving it), degrees, or why there is none.
+    pub minimum_deviation: Result<(f64, f64), NoValue>,
+    /// The limiting incidence, degrees, or why there is none.
+    pub limiting_incidence: Result<f64, NoValue>,
+    /// Its rays and band.
+    pub plan: AngledPlan<PrismFace>,
+    /// What must be on paper.
+    pub setup: Setup,
+}
+
+impl PrismPlan {
+    fn turns(&self) -> bool {
+        matches!(self.plan.setup.expected, Expected::Turn { .. })
+    }
+}
+
+impl SheetView for PrismPlan {
+    fn extent(&self) -> Setup {
+        self.setup
+    }
+    fn student(&self, bounds: Rect) -> Drawing {
+        let mut d = Drawing::default();
+        d.items = super::angled_drawing::student(&self.plan, &bounds, &mut d.placer);
+        d
+    }
+    fn key(&self, base: &mut Drawing, bounds: Rect) -> Vec<Item> {
+        super::angled_drawing::key(&self.plan, &bounds, &mut base.placer)
+    }
+    fn template(&self) -> &'static str {
+        if self.turns() { "prism-turn.toml" } else { "prism.toml" }
+    }
+    fn entry_words(&self) -> String {
+        match self.entry {
+            PrismEntry::Side => "side",
+            PrismEntry::Base => "base",
+        }
+        .to_string()
+    }
+    fn table_widths(&self) -> [f64; 4] {
+        [0.09, 0.21, 0.35, 0.35]
+    }
+    fn table_rows(&self, key: bool) -> Vec<Vec<String>> {
+        self.plan
+            .rays
+            .iter()
+            .map(|r| {
+                let mut row = vec![r.letter.clone(), angle(r.incidence_deg)];
+                if key {
+                    if self.turns() {
+                        let face = match &r.exit {
+                            Ok((f, _)) => av::FaceName::words(*f).to_string(),
+                            Err(e) => e.words().to_string(),
+                        };
+                        row.push(face);
+                    } else {
+                        row.push(with_range(&r.emergence_deg, r.tolerance_deg, "°"));
+                    }
+                    row.push(with_range(&r.deviation_deg, r.tolerance_deg, "°"));
+                }
+                row
+            })
+            .collect()
+    }
+    fn key_lines(&self) -> Vec<String> {
+        let p = &self.prism;
+        let a = p.apex_rad.to_degrees();
+        let crit = (1.0 / p.index).asin().to_degrees();
+        let mut v = Vec::new();
+        if self.turns() {
+            v.push(format!(
+                "Total internal reflection at 45° needs n > √2 = 1.414; this piece has n = {} (critical angle {:.1}°). In at a side the ray turns through 90°; in at the base it is reflected twice and turns through 180°.",
+                p.index, crit
+            ));
+            if self.entry == PrismEntry::Base {
+                v.push(
+                    "The ray comes back toward the ray box: with a laser source, nobody looks along it."
+                        .to_string(),
+                );
+            }
+        } else {
+            v.push(format!(
+                "Deviation δ = i + e − A with apex A = {a:.1}°, n = {}, critical angle {crit:.1}°.",
+                p.index
+            ));
+            match self.minimum_deviation {
+                Ok((d, i)) => v.push(format!(
+                    "Minimum deviation δmin = {d:.1}° at i = {i:.1}° (the ray crosses symmetrically); n = sin((A + δmin)/2)/sin(A/2) = {:.3}.",
+                    ((p.apex_rad + d.to_radians()) / 2.0).sin() / (p.apex_rad / 2.0).sin()
+                )),
+                Err(e) => v.push(format!("No minimum deviation: {}.", e.words())),
+            }
+            match self.limiting_incidence {
+                Ok(l) => v.push(format!(
+                    "Below i = {l:.1}° (the limiting incidence, asin(n·sin(A − θc))) the ray is totally reflected at the second side."
+                )),
+                Err(e) => v.push(format!("No limiting incidence: {}.", e.words())),
+            }
+        }
+        if let (Some(band), Some((lo, hi))) = (&self.plan.band, &self.plan.band_words) {
+            v.push(format!("Safe band i = {:.1}°–{:.1}°: {lo}; {hi}.", band.min, band.max));
+        }
+        v.push(format!(
+            "Accept ranges: angles ± the value shown (a ±0.5° protractor reading plus a ±{:.1} mm slip at each end of the line drawn). Positive angles lie on the base side of the normal.",
+            self.plan.rules.across_error_mm()
+        ));
+        v
+    }
+    fn key_plot(&self, rect: Rect) -> Vec<Item> {
+        super::angled_drawing::deviation_plot(&self.plan, rect)
+    }
+    fn student_note(&self) -> Option<String> {
+        if self.turns() {
+            Some("Angle the ray was turned through: ______°".to_string())
+        } else {
+            Some("Smallest deviation you found: ______° at i = ______°".to_string())
+        }
+    }
+    fn answers(&self) -> Value {
+        let mut m = serde_json::Map::new();
+        m.insert("apex_deg".into(), json!(self.prism.apex_rad.to_degrees()));
+        let mut reasons = serde_json::Map::new();
+        match self.minimum_deviation {
+            Ok((d, i)) => {
+                m.insert("minimum_deviation_deg".into(), json!(d));
+                m.insert("minimum_deviation_incidence_deg".into(), json!(i));
+            }
+            Err(e) => {
+                m.insert("minimum_deviation_deg".into(), Value::Null);
+                m.insert("minimum_deviation_incidence_deg".into(), Value::Null);
+                reasons.insert("minimum_deviation_deg".into(), json!(e.words()));
+                reasons.insert("minimum_deviation_incidence_deg".into(), json!(e.words()));
+            }
+        }
+        match self.limiting_incidence {
+            Ok(l) => {
+                m.insert("limiting_incidence_deg".into(), json!(l));
+            }
+            Err(e) => {
+                m.insert("limiting_incidence_deg".into(), Value::Null);
+                reasons.insert("limiting_incidence_deg".into(), json!(e.words()));
+            }
+        }
+        if !reasons.is_empty() {
+            m.insert("not_defined".into(), Value::Object(reasons));
+        }
+        m.insert("safe_band_deg".into(), av::band_json(&self.plan));
+        m.insert("rays".into(), Value::Array(av::rays_json(&self.plan, false)));
+        Value::Object(m)
+    }
+    fn summary_rows(&self) -> Vec<SummaryRow> {
+        av::summary_rows(&self.plan, false)
+    }
+    fn summary_cells(&self) -> Vec<[String; 5]> {
+        let facts = match (self.turns(), self.minimum_deviation) {
+            (true, _) => {
+                (format!("apex {:.0}°", self.prism.apex_rad.to_degrees()), format!("n {}", self.prism.index))
+            }
+            (false, Ok((d, i))) => (format!("δmin {d:.1}°"), format!("at {i:.1}°")),
+            (false, Err(_)) => ("no δmin".to_string(), String::new()),
+        };
+        self.plan
+            .rays
+            .iter()
+            .map(|r| {
+                [
+                    r.letter.clone(),
+                    angle(r.incidence_deg),
+                    format!("δ {}", with_range(&r.deviation_deg, r.tolerance_deg, "°")),
+                    facts.0.clone(),
+                    facts.1.clone(),
+                ]
+            })
+            .collect()
+    }
+    fn report(&self) -> String {
+        let mut s = String::new();
+        let p = &self.prism;
+        let _ = writeln!(
+            s,
+            "  prism: apex {:.1}°, sides {} mm, base {:.1} mm, n = {}, light enters the {}",
+            p.apex_rad.to_degrees(),
+            p.side_mm,
+            p.base_mm(),
+            p.index,
+            self.entry.as_str()
+        );
+        let _ = match self.minimum_deviation {
+            Ok((d, i)) => writeln!(s, "  minimum deviation {d:.2}° at incidence {i:.2}°"),
+            Err(e) => writeln!(s, "  minimum deviation: none ({})", e.words()),
+        };
+        let _ = match self.limiting_incidence {
+            Ok(l) => writeln!(s, "  limiting incidence {l:.2}°"),
+            Err(e) => writeln!(s, "  limiting incidence: none ({})", e.words()),
+        };
+        s.push_str(&av::report(&self.plan, false));
+        s
+    }
 }
 
 #[cfg(test)]

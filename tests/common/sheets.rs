@@ -5,13 +5,14 @@ use raysheet::kit::Kit;
 use raysheet::layout::{self, Templates};
 use raysheet::output::{Formats, Output, build_plans};
 use raysheet::paper::{Orientation, PaperSize, PaperSpec};
-use raysheet::plan::{SheetPlan, plan_kit};
 use raysheet::scene::{Item, Page};
+use raysheet::sheets::Lesson;
+use raysheet::sheets::{SheetPlan, plan_lesson};
 
-pub fn fixture(name: &str) -> Kit {
+pub fn fixture(name: &str) -> Lesson {
     let path = format!("{}/tests/fixtures/{name}", env!("CARGO_MANIFEST_DIR"));
     let text = std::fs::read_to_string(&path).expect("fixture is readable");
-    Kit::from_toml(&text, name).unwrap_or_else(|e| panic!("fixture {name} is valid: {e}"))
+    Lesson::from_toml(&text, name).unwrap_or_else(|e| panic!("fixture {name} is valid: {e}"))
 }
 
 /// A named paper size with 10 mm margins.
@@ -20,8 +21,8 @@ pub fn paper(size: &str, orientation: Orientation) -> PaperSpec {
 }
 
 /// The kit planned and built into files.
-pub fn build(kit: &Kit, paper: &PaperSpec, formats: Formats) -> Vec<Output> {
-    let plans = plan_kit(kit, paper);
+pub fn build(kit: &Lesson, paper: &PaperSpec, formats: Formats) -> Vec<Output> {
+    let plans = plan_lesson(kit, paper);
     build_plans(kit, &plans, paper, formats, None).expect("the kit builds")
 }
 

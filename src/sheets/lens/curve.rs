@@ -89,7 +89,11 @@ mod tests {
         let band = SafeBand {
             min_mm: 1.0,
             max_mm: 29.0,
-            ..crate::plan::safe_band(&half_disc(r, n), &crate::plan::BandRules::for_ray_width(2.0)).unwrap()
+            ..crate::sheets::lens::safe_band(
+                &half_disc(r, n),
+                &crate::sheets::lens::BandRules::for_ray_width(2.0),
+            )
+            .unwrap()
         };
         let curve = crossing_curve(&half_disc(r, n), Some(&band));
         assert_eq!(curve.top_height_mm, 29.0);

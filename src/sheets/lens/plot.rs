@@ -1,9 +1,9 @@
 //! The key's small plot of crossing position against guide height
 //! (spherical aberration): draws the curve the plan sampled from the exact trace.
 
-use super::text::text;
+use super::LensPlan as SheetPlan;
+use crate::draw::text;
 use crate::geom::Point;
-use crate::plan::SheetPlan;
 use crate::scene::{Anchor, Dash, Item, MarkerShape, Rect, Stroke, Weight};
 
 /// A step for axis ticks: 1, 2 or 5 × 10^k giving about `n` ticks over `span`.

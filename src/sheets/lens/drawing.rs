@@ -1,13 +1,13 @@
 //! The setup drawn at 1:1 in the sheet frame (x along the axis from the entry
 //! vertex, y up, mm): what the student sheet shows, and what the key adds.
 
-use super::labels::Placer;
-use super::text::{text, text_box};
+use super::LensPlan as SheetPlan;
+use crate::draw::{Drawing, Placer};
 use crate::geom::{Arc, Point, Vec2};
-use crate::kit::SheetKind;
 use crate::optics::{Boundary, Face, Outcome, Outline};
-use crate::plan::{SheetPlan, fmt_mm};
+use crate::plan::fmt_mm;
 use crate::scene::{Anchor, Dash, Item, MarkerShape, OutlinePart, Rect, Stroke, Weight};
+use crate::sheets::SheetKind;
 
 /// Line weights, mm: pencil lines are about 0.3–0.5 mm (common practice, no source).
 pub const OUTLINE_W: f64 = 0.35;
@@ -46,24 +46,12 @@ pub fn outline_item(outline: &Outline, fill: Option<f64>) -> Item {
     Item::Outline { parts, fill, stroke: Stroke::solid(OUTLINE_W) }
 }
 
-/// The items and label obstacles of a drawing, in the sheet frame.
-pub struct Drawing {
-    /// What is drawn.
-    pub items: Vec<Item>,
-    /// Where labels may not go.
-    pub placer: Placer,
-}
-
 fn line(from: Point, to: Point, stroke: Stroke) -> Item {
     Item::Line { from, to, stroke }
 }
 
 fn place_label(d: &mut Drawing, bounds: &Rect, s: &str, size: f64, candidates: &[(Point, Anchor)]) {
-    let boxes: Vec<Rect> =
-        candidates.iter().map(|(p, a)| text_box(*p, s, size, Weight::Regular, *a)).collect();
-    let k = d.placer.choose(&boxes, bounds);
-    let (p, a) = candidates[k];
-    d.items.push(text(p, s, size, Weight::Regular, a));
+    d.label(bounds, s, size, candidates);
 }
 
 /// The student sheet's drawing: axis, outline, flat-face or centre line, ray
@@ -98,7 +86,7 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     let (x0, x1) = o.x_range();
     d.placer.block(Rect::from_corners(Point::new(x0, -a), Point::new(x1, a)));
     // Flat-face line or centre line.
-    let reach = (a + 10.0).min(s.y_half - 1.0);
+    let reach = (a + 10.0).min(s.y_max - 1.0);
     let (lx, name) = match (plan.kind, o.entry_face) {
         (SheetKind::CurvedFace, Face::Flat) => (0.0, "flat face"),
         _ => (o.t() / 2.0, "centre line"),
@@ -115,7 +103,7 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     );
     // Ray box: where it stands.
     let hmax = plan.rays.iter().map(|r| r.height_mm.abs()).fold(0.0, f64::max);
-    let box_half = (hmax + 6.0).min(s.y_half - 1.0).max(10.0);
+    let box_half = (hmax + 6.0).min(s.y_max - 1.0).max(10.0);
     let bx0 = s.x_min + 1.0;
     let bx1 = bx0 + 9.0;
     let rb = Rect::from_corners(Point::new(bx0, -box_half), Point::new(bx1, box_half));

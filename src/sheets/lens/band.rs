@@ -1,8 +1,8 @@
 //! The safe band of guide heights: where a single guide ray gives a
 //! measurement worth making, and why the band ends where it ends.
 
-use super::scan::{Scan, find_band};
 use crate::optics::{Boundary, Outcome, Outline, trace_parallel};
+use crate::plan::scan::{Scan, find_band};
 
 /// Criteria for a worthwhile guide height (DESIGN.md, "Where the rays should go").
 #[derive(Clone, Copy, Debug, PartialEq)]
