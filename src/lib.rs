@@ -1,23 +1,25 @@
-//! raysheet: true-scale ray-optics tracing sheets and answer keys for acrylic lens kits.
+//! raysheet: true-scale ray-optics tracing sheets and answer keys for acrylic
+//! pieces: half-discs, lens shapes, blocks and prisms.
 //!
-//! The pipeline is `kit → optics → plan → layout → scene → render`: a kit file
-//! is validated into millimetres, every guide ray is traced exactly with
-//! Snell's law, the plan picks heights and works out the answers, the layout
-//! places them on paper at 1:1 as a device-independent scene, and the
-//! renderers turn that scene into SVG or PDF bytes. `output` gathers a build's
-//! files and the text reports; `app` resolves a command line into a job and
-//! runs it. Imports point one way, bottom first: geom, font, paper, optics,
-//! demo, kit, plan, scene, layout, render, output, app (`tests/layering.rs`).
+//! The pipeline is `kit → sheets → layout → scene → render`: a kit file is
+//! validated into millimetres, each sheet is checked and planned by its kind
+//! (`sheets/`: curved-face, focal, block, prism), every guide ray is traced
+//! exactly with Snell's law through the placed piece (`optics`), the layout
+//! places the plans on paper at 1:1 as a device-independent scene, and the
+//! renderers turn that scene into SVG or PDF bytes. `plan` holds what every
+//! kind shares; `output` gathers a build's files and the text reports; `app`
+//! resolves a command line into a job and runs it. Imports point one way,
+//! bottom first: geom, font, paper, optics, demo, kit, plan, scene, draw,
+//! sheets, layout, render, output, app (`tests/layering.rs`).
 //!
 //! From a kit string to a drawing:
 //!
 //! ```
-//! use raysheet::kit::Kit;
 //! use raysheet::layout::{layout, Templates};
-//! use raysheet::plan::plan_kit;
 //! use raysheet::render::render_svg_page;
+//! use raysheet::sheets::{Lesson, plan_lesson};
 //!
-//! let kit = Kit::from_toml(
+//! let kit = Lesson::from_toml(
 //!     r#"
 //!     [materials.acrylic]
 //!     index = 1.49
@@ -37,13 +39,13 @@
 //!     "#,
 //!     "example.toml",
 //! )?;
-//! let plans = plan_kit(&kit, &kit.paper);
+//! let plans = plan_lesson(&kit, &kit.paper);
 //! // Half-disc, flat face first: the ray at 8 mm meets the axis at
 //! // R·n·sinθ1 / sin(θ2 − θ1) from the flat face (DESIGN.md closed form).
 //! let (r, n, h): (f64, f64, f64) = (30.0, 1.49, 8.0);
 //! let (t1, t2) = ((h / r).asin(), (n * h / r).asin());
 //! let expected = r * n * t1.sin() / (t2 - t1).sin();
-//! let got = plans[0].rays[0].crossing_from_entry_mm.unwrap();
+//! let got = plans[0].lens().unwrap().rays[0].crossing_from_entry_mm.unwrap();
 //! assert!((got - expected).abs() < 1e-9);
 //!
 //! let set = layout(&kit.title, &plans, &kit.paper, &Templates::shipped()?);
