@@ -11,7 +11,7 @@ pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_
 
 use crate::draw::{Drawing, leading, text, wrap};
 use crate::geom::{Point, Vec2};
-use crate::paper::PaperSpec;
+use crate::paper::{Orientation, PaperSpec};
 use crate::scene::{Anchor, Item, MarkerShape, Page, Rect, Scene, Stroke, Weight};
 use crate::sheets::SheetPlan;
 
@@ -107,11 +107,26 @@ pub fn tiling_for(length: f64, height: f64, window: &Rect) -> Tiling {
     Tiling { columns: tiles_needed(length, window.width()), rows: tiles_needed(height, window.height()) }
 }
 
+fn tiling_on(p: &SheetPlan, paper: &PaperSpec) -> Tiling {
+    let s = p.setup();
+    tiling_for(s.length(), s.height(), &regions(paper).drawing)
+}
+
+/// The paper one plan is laid out on. With `orientation = "auto"` a sheet is
+/// landscape (the optical axis along the long side) unless it would need more
+/// pages than in portrait, as a tall block or prism setup can.
+pub fn paper_for(p: &SheetPlan, paper: &PaperSpec) -> PaperSpec {
+    if paper.orientation != Orientation::Auto {
+        return paper.clone();
+    }
+    let landscape = PaperSpec { orientation: Orientation::Landscape, ..paper.clone() };
+    let portrait = PaperSpec { orientation: Orientation::Portrait, ..paper.clone() };
+    if tiling_on(p, &portrait).pages() < tiling_on(p, &landscape).pages() { portrait } else { paper.clone() }
+}
+
 /// How many pages one plan's student sheet takes (the key takes as many).
 pub fn pages_needed(p: &SheetPlan, paper: &PaperSpec) -> usize {
-    let rg = regions(paper);
-    let s = p.setup();
-    let t = tiling_for(s.length(), s.height(), &rg.drawing);
+    let t = tiling_on(p, &paper_for(p, paper));
     t.columns.saturating_mul(t.rows)
 }
 
@@ -146,6 +161,7 @@ pub fn page_stem(p: &SheetPlan, role: Role) -> String {
 
 /// The pages of one plan (several when tiled).
 pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Templates, role: Role) -> Vec<Page> {
+    let paper = &paper_for(p, paper);
     let rg = regions(paper);
     let s = p.setup();
     let length = s.length();

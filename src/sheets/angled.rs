@@ -147,8 +147,12 @@ pub struct AngledRay<F> {
     pub lateral_shift_mm: Result<f64, NotDefined>,
     /// The face it leaves through and where.
     pub exit: Result<(F, Point), NotDefined>,
-    /// Accept range for the angles read on this ray, ± degrees.
+    /// Accept range for the angle of emergence and the deviation, ± degrees:
+    /// read on the outgoing ray a student draws ([`AngledSetup::out_mm`] long).
     pub tolerance_deg: f64,
+    /// Accept range for the angle of refraction, ± degrees: read on the ray
+    /// inside the piece, as long as its path from the entry point.
+    pub refraction_tolerance_deg: f64,
     /// Accept range for the lateral shift, ± mm.
     pub tolerance_mm: f64,
     /// Whether the angle lies in the safe band.
@@ -231,14 +235,15 @@ impl<F: Copy + PartialEq> AngledSetup<F> {
         });
         let lateral_shift_mm = measure::lateral_shift_mm(&tr);
         let exit = measure::exit_point(&tr);
-        // The angles are read on the shortest line a student draws for them:
-        // the ray inside the piece (entry to first event after it) or the
-        // outgoing ray.
+        // Each angle is read on the line a student draws for it: the angle of
+        // refraction on the ray inside the piece (entry point to the next
+        // event), the emergence and deviation on the outgoing ray.
         let inside_len = match (tr.events.first(), tr.events.get(1)) {
             (Some(a), Some(b)) => a.at.distance(b.at),
             _ => self.out_mm,
         };
-        let tolerance_deg = rules.angle_tolerance_deg(inside_len.min(self.out_mm));
+        let tolerance_deg = rules.angle_tolerance_deg(self.out_mm);
+        let refraction_tolerance_deg = rules.angle_tolerance_deg(inside_len);
         let tolerance_mm = rules.across_error_mm() + rules.ruler_mm;
         AngledRay {
             letter,
@@ -251,6 +256,7 @@ impl<F: Copy + PartialEq> AngledSetup<F> {
             lateral_shift_mm,
             exit,
             tolerance_deg,
+            refraction_tolerance_deg,
             tolerance_mm,
             in_band,
         }

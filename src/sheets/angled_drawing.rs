@@ -49,7 +49,7 @@ pub fn extent<F: Copy + PartialEq>(plan: &AngledPlan<F>) -> (Point, Point) {
             take(out.origin + out.dir * plan.setup.out_mm);
         }
     }
-    (Point::new(lo.x - 8.0, lo.y - 8.0), Point::new(hi.x + 8.0, hi.y + 8.0))
+    (Point::new(lo.x - 5.0, lo.y - 5.0), Point::new(hi.x + 5.0, hi.y + 5.0))
 }
 
 fn label(items: &mut Vec<Item>, placer: &mut Placer, bounds: &Rect, s: &str, cands: &[(Point, Anchor)]) {

@@ -124,6 +124,7 @@ pub fn rays_json<F: FaceName>(plan: &AngledPlan<F>, shift: bool) -> Vec<Value> {
             out.extend(m);
             out.insert("exit_face".into(), json!(r.exit.as_ref().ok().map(|(f, _)| f.name())));
             out.insert("tolerance_deg".into(), json!(r.tolerance_deg));
+            out.insert("refraction_tolerance_deg".into(), json!(r.refraction_tolerance_deg));
             if shift {
                 out.insert("tolerance_mm".into(), json!(r.tolerance_mm));
             }
@@ -180,6 +181,7 @@ pub fn summary_rows<F: FaceName>(plan: &AngledPlan<F>, shift: bool) -> Vec<Summa
                 ("emergence_angle_deg", n(&r.emergence_deg)),
                 ("deviation_deg", n(&r.deviation_deg)),
                 ("tolerance_deg", format!("{:.3}", r.tolerance_deg)),
+                ("refraction_tolerance_deg", format!("{:.3}", r.refraction_tolerance_deg)),
             ];
             if shift {
                 row.push(("lateral_shift_mm", n(&r.lateral_shift_mm)));

@@ -19,9 +19,9 @@ use crate::plan::scan::{Band, grid_values};
 use crate::scene::{Item, Rect};
 
 /// Length of the printed guide line before the entry point, mm.
-pub const LEAD_MM: f64 = 60.0;
+pub const LEAD_MM: f64 = 50.0;
 /// Length of the emergent ray a student draws, mm (common practice, no source).
-pub const OUT_MM: f64 = 50.0;
+pub const OUT_MM: f64 = 45.0;
 
 /// A block on the sheet: its entry face on x = 0 from y = +h/2 down to −h/2,
 /// the light coming from the left and meeting the face's middle (the origin).
@@ -253,7 +253,7 @@ impl SheetView for BlockPlan {
         "block.toml"
     }
     fn entry_words(&self) -> String {
-        "entry".to_string()
+        format!("{} mm", crate::plan::fmt_mm(self.block.height_mm))
     }
     fn table_widths(&self) -> [f64; 4] {
         [0.09, 0.21, 0.35, 0.35]
@@ -265,7 +265,7 @@ impl SheetView for BlockPlan {
             .map(|r| {
                 let mut row = vec![r.letter.clone(), angle(r.incidence_deg)];
                 if key {
-                    row.push(with_range(&r.refraction_deg, r.tolerance_deg, "°"));
+                    row.push(with_range(&r.refraction_deg, r.refraction_tolerance_deg, "°"));
                     row.push(with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm"));
                 }
                 row
@@ -283,7 +283,7 @@ impl SheetView for BlockPlan {
         }
         v.push(format!(
             "Accept ranges: angles ±{:.1}° or more (a ±0.5° protractor reading plus a ±{:.1} mm slip at each end of the line drawn); shift ±{:.1} mm (the ray's line placed to ±{:.1} mm, a ruler read to ±0.5 mm).",
-            self.plan.rays.iter().map(|r| r.tolerance_deg).fold(f64::INFINITY, f64::min).min(99.0),
+            self.plan.rays.iter().map(|r| r.refraction_tolerance_deg).fold(f64::INFINITY, f64::min).min(99.0),
             self.plan.rules.across_error_mm(),
             self.plan.rules.across_error_mm() + self.plan.rules.ruler_mm,
             self.plan.rules.across_error_mm()
@@ -319,7 +319,7 @@ impl SheetView for BlockPlan {
                     angle(r.incidence_deg),
                     format!(
                         "r {}, d {}",
-                        with_range(&r.refraction_deg, r.tolerance_deg, "°"),
+                        with_range(&r.refraction_deg, r.refraction_tolerance_deg, "°"),
                         with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm")
                     ),
                     format!("t {} mm", self.block.thickness_mm),

@@ -21,9 +21,9 @@ use crate::plan::scan::{Band, grid_values};
 use crate::scene::{Item, Rect};
 
 /// Length of the printed guide line before the entry point, mm.
-pub const LEAD_MM: f64 = 60.0;
+pub const LEAD_MM: f64 = 50.0;
 /// Length of the emergent ray a student draws, mm (common practice, no source).
-pub const OUT_MM: f64 = 50.0;
+pub const OUT_MM: f64 = 45.0;
 
 /// Which face the light enters.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]

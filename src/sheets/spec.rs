@@ -89,8 +89,11 @@ impl Lesson {
                     format!("give {} or {last}", rest.join(", ")),
                 ));
             };
+            // Whether the piece fits comes first: it says more than a field the
+            // kind does not take.
+            let spec = kind.def().check(entry, &kit)?;
             entry.reject_unknown(kind.def().fields())?;
-            sheets.push(kind.def().check(entry, &kit)?);
+            sheets.push(spec);
         }
         Ok(Lesson { kit, sheets })
     }
