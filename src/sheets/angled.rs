@@ -356,7 +356,9 @@ pub fn limit_words(limit: AngleLimit, at_deg: f64, lower: bool, rules: &AngleRul
             rules.min_shift_ratio,
             rules.across_error_mm() + rules.ruler_mm
         ),
-        AngleLimit::RangeEnd => format!("the band stops at {a}, the end of the angles this kind of sheet uses"),
+        AngleLimit::RangeEnd => {
+            format!("the band stops at {a}, the end of the angles this kind of sheet uses")
+        }
     }
 }
 

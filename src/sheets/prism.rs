@@ -232,7 +232,8 @@ impl Kind for PrismKind {
         // A turning sheet is about the turn at near-normal incidence (a single
         // reflection's turn changes by twice any tilt), so its variants stay
         // within 8° of the normal; a deviation sheet takes any angle.
-        let (from, to) = if matches!(s.expected, Expected::Turn { .. }) { (-8.0, 8.0) } else { (-89.0, 89.0) };
+        let (from, to) =
+            if matches!(s.expected, Expected::Turn { .. }) { (-8.0, 8.0) } else { (-89.0, 89.0) };
         let band = s.band(&rules, from, to, prefer, false);
         Box::new(PrismPrepared { kit, spec, prism, entry, rules, band })
     }
