@@ -183,3 +183,37 @@ fn default_angles_lie_in_the_band_and_bracket_minimum_deviation() {
     assert!(angles.iter().any(|a| *a < imin) && angles.iter().any(|a| *a > imin), "{angles:?} around {imin}");
     assert!(sheet["rays"].as_array().unwrap().iter().all(|r| r["in_safe_band"] == true));
 }
+
+#[test]
+fn class_variants_give_groups_their_own_angles_inside_the_band() {
+    use raysheet::plan::{Group, folder_names};
+    use raysheet::sheets::plan_class;
+    let text = KIT.replace("angles_deg = [30, 45, 60]\n", "").replace("angles_deg = [35, 45, 55, 65]\n", "");
+    let lesson = Lesson::from_toml(&text, FILE).unwrap();
+    let names: Vec<String> = (1..=6).map(|i| format!("Bench {i}")).collect();
+    let groups = names
+        .iter()
+        .cloned()
+        .zip(folder_names(&names))
+        .map(|(name, folder)| Group { name, folder })
+        .collect();
+    let cp = plan_class(&lesson, &lesson.paper, groups, 2027);
+    for sheet in 0..2 {
+        let mut seen = std::collections::BTreeSet::new();
+        for g in &cp.plans {
+            let v: Value =
+                serde_json::from_str(&to_json("t", None, std::slice::from_ref(&g[sheet]))).unwrap();
+            let rays = v["sheets"][0]["rays"].as_array().unwrap().clone();
+            let angles: Vec<f64> =
+                rays.iter().map(|r| r["angle_of_incidence_deg"].as_f64().unwrap()).collect();
+            // Whole degrees (the 1° grid), every ray in the band and graded.
+            assert!(angles.iter().all(|a| (a - a.round()).abs() < 1e-9), "{angles:?}");
+            assert!(rays.iter().all(|r| r["in_safe_band"] == true && r["graded"] == true), "{angles:?}");
+            seen.insert(format!("{angles:?}"));
+        }
+        assert_eq!(seen.len(), cp.plans.len(), "sheet {}: every group has its own angles", sheet + 1);
+    }
+    // Byte-identical from the same seed.
+    let again = plan_class(&lesson, &lesson.paper, cp.groups.clone(), 2027);
+    assert_eq!(to_json("t", Some(2027), &again.plans.concat()), to_json("t", Some(2027), &cp.plans.concat()));
+}

@@ -596,6 +596,17 @@ mod tests {
     }
 
     #[test]
+    fn a_positive_angle_puts_the_incoming_ray_on_the_base_side_of_the_normal() {
+        // The textbook sign (issue 7): positive when the incoming ray lies on the base side.
+        let p = Prism::new(60.0, 50.0, 1.49).unwrap();
+        let s = setup(&p, PrismEntry::Side);
+        let base_mid = s.toward.unwrap();
+        let side = |q: Point| s.outward.cross(q - s.entry_point).signum();
+        assert_eq!(side(s.guide(30.0).origin), side(base_mid));
+        assert_eq!(side(s.guide(-30.0).origin), -side(base_mid));
+    }
+
+    #[test]
     fn traced_minimum_deviation_matches_the_formula() {
         // Minimum deviation at symmetric passage: n = sin((A + δmin)/2)/sin(A/2) (DESIGN.md).
         for (apex, n) in [(60.0, 1.49), (45.0, 1.586), (30.0, 1.52)] {
