@@ -49,6 +49,18 @@ impl fmt::Display for KitError {
 
 impl std::error::Error for KitError {}
 
+/// "did you mean `x`? " for the accepted name nearest to `name` (at most three
+/// edits away), else nothing.
+pub fn did_you_mean(name: &str, known: &[&str]) -> String {
+    known
+        .iter()
+        .map(|k| (strsim::damerau_levenshtein(name, k), *k))
+        .min()
+        .filter(|(d, _)| *d <= 3)
+        .map(|(_, k)| format!("did you mean `{k}`? "))
+        .unwrap_or_default()
+}
+
 /// Turns byte offsets into lines and columns and finds the key path at an offset.
 pub(super) struct Locator<'a> {
     pub file: &'a str,

@@ -249,13 +249,7 @@ impl SheetEntry {
             if accepted.contains(&name.as_str()) {
                 continue;
             }
-            let best = all
-                .iter()
-                .map(|k| (strsim::damerau_levenshtein(name, k), *k))
-                .min()
-                .filter(|(d, _)| *d <= 3)
-                .map(|(_, k)| format!("did you mean `{k}`? "))
-                .unwrap_or_default();
+            let best = super::error::did_you_mean(name, &all);
             return Err(field.key_at.error(
                 format!("unknown field `{name}` on a {} sheet", self.kind.value),
                 format!("{best}accepted here: {}", all.join(", ")),

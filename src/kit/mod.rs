@@ -130,13 +130,7 @@ fn de_error(loc: &Locator<'_>, e: &toml::de::Error) -> KitError {
         let inline = !path.is_empty() && TABLE_FIELDS.iter().any(|(t, _)| !t.is_empty() && *t == path);
         let table = if path.contains('.') || path.contains('[') || inline { table } else { "" };
         let known = TABLE_FIELDS.iter().find(|(t, _)| *t == table).map(|(_, f)| *f).unwrap_or(&[]);
-        let best = known
-            .iter()
-            .map(|k| (strsim::damerau_levenshtein(name, k), *k))
-            .min()
-            .filter(|(d, _)| *d <= 3)
-            .map(|(_, k)| format!("did you mean `{k}`? "))
-            .unwrap_or_default();
+        let best = error::did_you_mean(name, known);
         let field = if inline { format!("{path}.{name}") } else { path };
         return loc.error(
             offset,

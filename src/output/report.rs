@@ -4,13 +4,8 @@ use std::fmt::Write;
 
 use crate::kit::Kit;
 use crate::optics::{Entry, Paraxial, Piece};
+use crate::plan::fmt2_or_none;
 use crate::sheets::SheetPlan;
-
-fn opt(v: Option<f64>) -> String {
-    // Adding 0.0 turns −0.0 into 0.0; values that round to zero print unsigned.
-    v.map(|x| if x.abs() < 0.005 { "0.00".to_string() } else { format!("{:.2}", x + 0.0) })
-        .unwrap_or_else(|| "none".into())
-}
 
 /// The pieces table: shape, sizes, index and, for lens shapes, edge thickness
 /// and focal lengths.
@@ -37,9 +32,9 @@ pub fn pieces_table(kit: &Kit) -> String {
                     l.height_mm(),
                     l.edge_thickness_mm(),
                     l.index(),
-                    opt(px.thin_lens_focal_mm()),
-                    opt(px.efl_mm()),
-                    opt(px.bfl_mm()),
+                    fmt2_or_none(px.thin_lens_focal_mm()),
+                    fmt2_or_none(px.efl_mm()),
+                    fmt2_or_none(px.bfl_mm()),
                 );
             }
             Piece::Block(b) => {

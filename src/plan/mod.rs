@@ -30,3 +30,15 @@ pub fn to_grid(v: f64, grid: f64) -> f64 {
 pub fn fmt_mm(v: f64) -> String {
     if (v - v.round()).abs() < 1e-9 { format!("{}", v.round()) } else { format!("{v:.1}") }
 }
+
+/// One decimal, with −0.0 written as 0.0 (adding +0.0 does that in IEEE 754).
+pub fn fmt1(v: f64) -> String {
+    format!("{:.1}", v + 0.0)
+}
+
+/// Two decimals, `0.00` for anything that rounds to zero (no "−0.00"), and
+/// `none` for no value.
+pub fn fmt2_or_none(v: Option<f64>) -> String {
+    v.map(|x| if x.abs() < 0.005 { "0.00".to_string() } else { format!("{:.2}", x + 0.0) })
+        .unwrap_or_else(|| "none".into())
+}

@@ -9,6 +9,7 @@ use super::SummaryRow;
 use super::angled::{AngledPlan, AngledRay, Expected};
 use crate::kit::{KitError, SheetEntry};
 use crate::optics::{BlockFace, End, EventKind, PrismFace};
+use crate::plan::fmt1;
 
 /// Faces with answer-file names.
 pub trait FaceName: Copy + PartialEq {
@@ -55,10 +56,6 @@ pub fn angle(v: f64) -> String {
     if v < -1e-9 { format!("\u{2212}{s}") } else { s }
 }
 
-fn f1(v: f64) -> String {
-    format!("{:.1}", v + 0.0)
-}
-
 /// The answer-file outcome of an angle-sheet ray.
 pub fn outcome<F: FaceName>(plan: &AngledPlan<F>, r: &AngledRay<F>) -> &'static str {
     let turn = matches!(plan.setup.expected, Expected::Turn { .. });
@@ -90,7 +87,7 @@ pub fn graded<F: FaceName>(r: &AngledRay<F>) -> bool {
 /// "value ± tol unit" or the reason there is no value.
 pub fn with_range(v: &Result<f64, crate::optics::measure::NotDefined>, tol: f64, unit: &str) -> String {
     match v {
-        Ok(x) => format!("{} ± {} {unit}", f1(*x), f1(tol)).replace(" °", "°"),
+        Ok(x) => format!("{} ± {} {unit}", fmt1(*x), fmt1(tol)).replace(" °", "°"),
         Err(e) => e.words().to_string(),
     }
 }
@@ -262,4 +259,32 @@ pub fn check_angles(s: &SheetEntry, lo: f64, hi: f64) -> Result<Option<Vec<f64>>
         out.push(v);
     }
     Ok(Some(out))
+}
+
+/// The class-variant notes of an angle sheet: fixed angles, no band, or fewer
+/// settings than groups.
+pub fn angle_notes(number: usize, fixed: bool, options: usize, groups: usize) -> Vec<String> {
+    if fixed {
+        vec![format!("sheet {number} has fixed angles_deg, so every group gets the same angles")]
+    } else if options == 0 {
+        vec![format!(
+            "sheet {number}: no angle of incidence qualifies, so every group gets the default angles"
+        )]
+    } else if options < groups {
+        vec![format!(
+            "sheet {number}: the safe band has room for only {options} different setting(s) for {groups} groups"
+        )]
+    } else {
+        Vec::new()
+    }
+}
+
+/// An angle sheet's student drawing.
+pub fn student_drawing<F: FaceName>(
+    plan: &AngledPlan<F>,
+    bounds: crate::scene::Rect,
+) -> crate::draw::Drawing {
+    let mut d = crate::draw::Drawing::default();
+    d.items = super::angled_drawing::student(plan, &bounds, &mut d.placer);
+    d
 }

@@ -303,22 +303,7 @@ impl Prepared for PrismPrepared<'_> {
     }
 
     fn notes(&self, groups: usize) -> Vec<String> {
-        let n = self.spec.number;
-        if self.spec.angles_deg.is_some() {
-            return vec![format!("sheet {n} has fixed angles_deg, so every group gets the same angles")];
-        }
-        let options = self.choices().len();
-        if options == 0 {
-            vec![format!(
-                "sheet {n}: no angle of incidence qualifies, so every group gets the default angles"
-            )]
-        } else if options < groups {
-            vec![format!(
-                "sheet {n}: the safe band has room for only {options} different setting(s) for {groups} groups"
-            )]
-        } else {
-            Vec::new()
-        }
+        av::angle_notes(self.spec.number, self.spec.angles_deg.is_some(), self.choices().len(), groups)
     }
 
     fn plan(&self, choice: Option<&Choice>) -> SheetPlan {
@@ -390,9 +375,7 @@ impl SheetView for PrismPlan {
         self.setup
     }
     fn student(&self, bounds: Rect) -> Drawing {
-        let mut d = Drawing::default();
-        d.items = super::angled_drawing::student(&self.plan, &bounds, &mut d.placer);
-        d
+        av::student_drawing(&self.plan, bounds)
     }
     fn key(&self, base: &mut Drawing, bounds: Rect) -> Vec<Item> {
         super::angled_drawing::key(&self.plan, &bounds, &mut base.placer)

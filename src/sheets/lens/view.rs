@@ -8,23 +8,13 @@ use serde::Serialize;
 use super::{LensPlan, RayAnswer, drawing, plot};
 use crate::draw::Drawing;
 use crate::optics::Outcome;
-use crate::plan::fmt_mm;
+use crate::plan::{fmt_mm, fmt1, fmt2_or_none};
 use crate::scene::{Item, Rect};
 use crate::sheets::{Setup, SheetKind, SheetView, SummaryRow};
-
-fn f1(v: f64) -> String {
-    format!("{:.1}", v + 0.0)
-}
 
 /// −0.0 written as 0.0 (adding +0.0 does exactly that in IEEE 754).
 fn z(v: Option<f64>) -> Option<f64> {
     v.map(|x| x + 0.0)
-}
-
-fn opt(v: Option<f64>) -> String {
-    // Adding 0.0 turns −0.0 into 0.0; values that round to zero print unsigned.
-    v.map(|x| if x.abs() < 0.005 { "0.00".to_string() } else { format!("{:.2}", x + 0.0) })
-        .unwrap_or_else(|| "none".into())
 }
 
 fn num(v: Option<f64>) -> String {
@@ -80,15 +70,15 @@ impl LensPlan {
     fn key_cells(&self, ray: &RayAnswer) -> (String, String) {
         let (reference, _) = self.measure_from();
         let tol = |r: &RayAnswer| match (r.graded, r.tolerance_mm) {
-            (true, Some(t)) => format!(" ± {}", f1(t)),
+            (true, Some(t)) => format!(" ± {}", fmt1(t)),
             _ => String::new(),
         };
         let (value, note) = match (ray.trace.outcome, ray.crossing_from_entry_mm) {
             (Outcome::Crosses { .. }, Some(x)) => {
-                (format!("{}{} mm", f1(x - reference), tol(ray)), "crosses")
+                (format!("{}{} mm", fmt1(x - reference), tol(ray)), "crosses")
             }
             (Outcome::Virtual { .. }, Some(x)) => {
-                (format!("{}{} mm", f1(self.outline.t() - x), tol(ray)), "virtual: traced back")
+                (format!("{}{} mm", fmt1(self.outline.t() - x), tol(ray)), "virtual: traced back")
             }
             (Outcome::OnAxis, _) => ("on the axis: no crossing".to_string(), "straight through"),
             (o, _) => ("no crossing".to_string(), o.as_str()),
@@ -145,7 +135,7 @@ impl SheetView for LensPlan {
     fn key_lines(&self) -> Vec<String> {
         let px = &self.paraxial;
         let mut v = Vec::new();
-        let mm = |x: Option<f64>| x.map(|x| format!("{} mm", f1(x))).unwrap_or_else(|| "none".into());
+        let mm = |x: Option<f64>| x.map(|x| format!("{} mm", fmt1(x))).unwrap_or_else(|| "none".into());
         let front = match px.front_focal_mm() {
             Some(d) if d < 0.0 => {
                 format!("the front focal point lies {} after the entry face (virtual)", mm(Some(-d)))
@@ -175,8 +165,8 @@ impl SheetView for LensPlan {
         if let Some(b) = &self.band {
             v.push(format!(
                 "Safe band {}–{} mm from the axis: {}; {}.",
-                f1(b.min_mm),
-                f1(b.max_mm),
+                fmt1(b.min_mm),
+                fmt1(b.max_mm),
                 b.min_reason,
                 b.max_reason
             ));
@@ -301,23 +291,26 @@ impl SheetView for LensPlan {
         let _ = writeln!(
             s,
             "  thin-lens focal length (lens maker's formula): {} mm",
-            opt(px.thin_lens_focal_mm())
+            fmt2_or_none(px.thin_lens_focal_mm())
         );
         let front = match px.front_focal_mm() {
-            Some(d) if d < 0.0 => format!("{} mm after the entry vertex (virtual)", opt(Some(-d))),
-            d => format!("{} mm before the entry vertex", opt(d)),
+            Some(d) if d < 0.0 => format!("{} mm after the entry vertex (virtual)", fmt2_or_none(Some(-d))),
+            d => format!("{} mm before the entry vertex", fmt2_or_none(d)),
         };
         let back = match px.bfl_mm() {
-            Some(b) if b < 0.0 => format!("{} mm before the exit vertex (virtual)", opt(Some(-b))),
-            b => format!("{} mm after the exit vertex", opt(b)),
+            Some(b) if b < 0.0 => format!("{} mm before the exit vertex (virtual)", fmt2_or_none(Some(-b))),
+            b => format!("{} mm after the exit vertex", fmt2_or_none(b)),
         };
-        let _ =
-            writeln!(s, "  thick piece: EFL {} mm; rear focus {back}; front focus {front}", opt(px.efl_mm()));
+        let _ = writeln!(
+            s,
+            "  thick piece: EFL {} mm; rear focus {back}; front focus {front}",
+            fmt2_or_none(px.efl_mm())
+        );
         let _ = writeln!(
             s,
             "  principal planes: front {} mm from the entry vertex, rear {} mm from the exit vertex",
-            opt(px.front_principal_mm()),
-            opt(px.rear_principal_mm())
+            fmt2_or_none(px.front_principal_mm()),
+            fmt2_or_none(px.rear_principal_mm())
         );
         match &self.band {
             Some(b) => {
@@ -342,8 +335,8 @@ impl SheetView for LensPlan {
                 r.letter,
                 fmt_mm(r.height_mm),
                 r.trace.outcome.as_str(),
-                opt(r.crossing_from_entry_mm),
-                opt(r.crossing_from_exit_mm),
+                fmt2_or_none(r.crossing_from_entry_mm),
+                fmt2_or_none(r.crossing_from_exit_mm),
                 r.exit_angle_deg.map(|a| format!("{a:.1}")).unwrap_or_else(|| "-".into()),
                 r.tolerance_mm.map(|a| format!("{a:.1}")).unwrap_or_else(|| "-".into()),
                 r.exit_face.unwrap_or("-")
