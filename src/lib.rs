@@ -7,7 +7,8 @@
 //! renderers turn that scene into SVG or PDF bytes. `output` gathers a build's
 //! files and the text reports; `app` resolves a command line into a job and
 //! runs it. Imports point one way, bottom first: geom, font, paper, optics,
-//! demo, kit, plan, scene, layout, render, output, app (`tests/layering.rs`).
+//! demo, kit, plan, scene, draw, sheets, layout, render, output, app
+//! (`tests/layering.rs`).
 //!
 //! From a kit string to a drawing:
 //!
@@ -55,6 +56,7 @@
 
 pub mod app;
 pub mod demo;
+pub mod draw;
 pub mod font;
 pub mod geom;
 pub mod kit;

@@ -2,9 +2,10 @@
 //! rendered with resvg: page size and viewBox in millimetres, and the key's
 //! pixels dark where the traced rays cross and light away from them.
 
+use raysheet::draw::text_box;
 use raysheet::geom::Point;
 use raysheet::kit::Kit;
-use raysheet::layout::{self, text_box};
+use raysheet::layout;
 use raysheet::output::{Formats, Output, build_plans};
 use raysheet::paper::{Orientation, PaperSpec};
 use raysheet::plan::{SheetPlan, plan_kit};

@@ -1,8 +1,7 @@
 //! The setup drawn at 1:1 in the sheet frame (x along the axis from the entry
 //! vertex, y up, mm): what the student sheet shows, and what the key adds.
 
-use super::labels::Placer;
-use super::text::{text, text_box};
+use crate::draw::{Placer, text, text_box};
 use crate::geom::{Arc, Point, Vec2};
 use crate::kit::SheetKind;
 use crate::optics::{Boundary, Face, Outcome, Outline};

@@ -4,17 +4,15 @@
 //! aberration plot. Never re-traces rays for answers, never writes bytes.
 
 mod drawing;
-mod labels;
 mod plot;
 mod summary;
 mod templates;
-mod text;
 
 pub use drawing::signed;
 pub use summary::summary_scene;
 pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_template};
-pub use text::{text_box, wrap};
 
+use crate::draw::{leading, text, wrap};
 use crate::geom::{Point, Vec2};
 use crate::kit::SheetKind;
 use crate::optics::Outcome;
@@ -22,7 +20,6 @@ use crate::paper::PaperSpec;
 use crate::plan::{SheetPlan, fmt_mm};
 use crate::scene::{Anchor, Item, MarkerShape, Page, Rect, Scene, Stroke, Weight};
 use drawing::{Drawing, key_extras, student};
-use text::{leading, text};
 
 /// Which of the two documents a page belongs to.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]

@@ -1,7 +1,7 @@
 //! The key's small plot of crossing position against guide height
 //! (spherical aberration): draws the curve the plan sampled from the exact trace.
 
-use super::text::text;
+use crate::draw::text;
 use crate::geom::Point;
 use crate::plan::SheetPlan;
 use crate::scene::{Anchor, Dash, Item, MarkerShape, Rect, Stroke, Weight};

@@ -1,8 +1,8 @@
 //! The class summary as pages: one table of every group, variant, sheet,
 //! guide heights, predicted crossings with tolerances and focal lengths.
 
-use super::text::text;
 use super::{regions, signed};
+use crate::draw::text;
 use crate::geom::Point;
 use crate::paper::PaperSpec;
 use crate::plan::ClassPlan;
