@@ -168,8 +168,9 @@ impl AngleTicks {
         for n in &self.numbers {
             let b = text_box(Point::new(0.0, 0.0), &n.text, NUMBER_PT, Weight::Regular, Anchor::Middle);
             let mid_y = (b.min.y + b.max.y) / 2.0;
+            // Aside far enough that the box clears the tick's line by 0.8 mm.
             let along = n.radial.perp();
-            let shift = b.width() / 2.0 + 0.8;
+            let shift = along.x.abs() * b.width() / 2.0 + along.y.abs() * b.height() / 2.0 + 0.8;
             let centers = [n.center, n.center + along * shift, n.center - along * shift];
             let boxes: Vec<Rect> = centers
                 .iter()
