@@ -25,7 +25,7 @@ const LAYERS: &[&str] = &[
     "kit",    // the kit file validated into a normalized Kit
     "plan",   // heights, safe bands, answers, ray letters, class sets
     "scene",  // the device-independent drawing
-    "draw",   // drawing helpers any kind uses: text, label placement
+    "draw",   // drawing helpers any sheet kind uses: text, labels, outlines, angle scales
     "sheets", // one folder per sheet kind: what it measures, its answers and drawings
     "layout", // plans placed on paper as scenes
     "render", // scenes to SVG and PDF bytes

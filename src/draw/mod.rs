@@ -1,10 +1,21 @@
-//! Drawing helpers any sheet kind uses: text items and wrapping, label
-//! placement clear of lines and other labels, and a drawing in progress.
+//! Drawing helpers any sheet kind uses: text boxes and wrapping, label
+//! placement with leader lines, piece outlines and protractor-like angle scales,
+//! and a drawing in progress.
+//!
+//! Everything here works in one frame of millimetres with y up (the sheet
+//! frame or the page) and hands back [`crate::scene::Item`]s; nothing here
+//! knows a sheet kind, traces a ray or lays out a page.
 
-mod labels;
-mod text;
+pub mod axes;
+mod fan;
+pub mod labels;
+mod outline;
+pub mod style;
+pub mod text;
 
-pub use labels::Placer;
+pub use fan::{AngleScale, AngleTicks, ScaleNumber, Tick, TickSize, angle_ticks};
+pub use labels::{Placer, place_lines_near, place_near};
+pub use outline::{path_points, shape_outline};
 pub use text::{leading, text, text_box, wrap};
 
 use crate::geom::Point;

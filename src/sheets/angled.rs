@@ -53,6 +53,9 @@ pub struct AngledSetup<F> {
     pub lead_mm: f64,
     /// Length of the outgoing ray a student draws, mm (common practice, no source).
     pub out_mm: f64,
+    /// Whether the key plots deviation against the angle of incidence (prisms;
+    /// a block's deviation is always zero).
+    pub plots_deviation: bool,
 }
 
 /// Criteria for an angle worth printing (our choices, common practice, no source).
@@ -439,7 +442,7 @@ impl<F: Copy + PartialEq> AngledPlan<F> {
             })
             .collect();
         let deviation_curve = match setup.expected {
-            Expected::Refract { .. } => (0..=356)
+            Expected::Refract { .. } if setup.plots_deviation => (0..=356)
                 .map(|k| -89.0 + 0.5 * f64::from(k))
                 .filter_map(|i| {
                     let r = setup.answer(&rules, i, String::new(), false);
@@ -449,7 +452,7 @@ impl<F: Copy + PartialEq> AngledPlan<F> {
                     r.deviation_deg.ok().map(|d| (i, d))
                 })
                 .collect(),
-            Expected::Turn { .. } => Vec::new(),
+            _ => Vec::new(),
         };
         AngledPlan { setup, rules, band, band_words, rays, deviation_curve }
     }

@@ -26,8 +26,8 @@ impl FaceName for BlockFace {
     fn words(self) -> &'static str {
         match self {
             BlockFace::Entry => "the entry face",
-            BlockFace::Exit => "the opposite face",
-            BlockFace::End => "an end",
+            BlockFace::Exit => "the far face",
+            BlockFace::End => "an end of the block",
         }
     }
 }

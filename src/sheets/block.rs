@@ -39,6 +39,7 @@ pub fn setup(block: &Block) -> AngledSetup<BlockFace> {
         expected: Expected::Refract { exit: BlockFace::Exit },
         lead_mm: LEAD_MM,
         out_mm: OUT_MM,
+        plots_deviation: false,
     }
 }
 

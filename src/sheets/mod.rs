@@ -10,10 +10,11 @@
 )]
 
 pub mod angled;
-mod angled_drawing;
+pub mod angled_drawing;
 pub mod angled_view;
 pub mod block;
 mod class;
+pub mod deviation_plot;
 pub mod lens;
 pub mod prism;
 mod spec;

@@ -103,6 +103,7 @@ pub fn setup(prism: &Prism, entry: PrismEntry) -> AngledSetup<PrismFace> {
         expected,
         lead_mm: LEAD_MM,
         out_mm: OUT_MM,
+        plots_deviation: true,
     }
 }
 
