@@ -454,6 +454,66 @@ pub(super) fn label(
     }
 }
 
+/// A guide line's label, which every guide must have: beside its start if
+/// there is room, else further back along the line's extension behind the ray
+/// box (guides through one entry point spread apart there), else at the least
+/// crowded of those places.
+fn guide_label(
+    items: &mut Vec<Item>,
+    placer: &mut Placer,
+    bounds: &Rect,
+    s: &str,
+    start: Point,
+    dir: Vec2,
+    side: Vec2,
+) {
+    let mut tries: Vec<(Point, Vec2)> = vec![(start + dir * 4.0, side)];
+    for k in 1..=7 {
+        tries.push((start - dir * (3.0 + 4.0 * f64::from(k)), -dir));
+    }
+    let leader = |items: &mut Vec<Item>, placer: &mut Placer, to: Point| {
+        // A dotted leader continues the guide back to its label.
+        items.push(line(start, to, Stroke::solid(THIN_W).dashed(Dash::Dashed { on_mm: 0.8, off_mm: 0.7 })));
+        placer.block_line(start, to);
+    };
+    for (k, &(at, prefer)) in tries.iter().enumerate() {
+        if k > 0 && !placer.is_line_free(start, at) {
+            continue;
+        }
+        if let Some(mut it) = place_near(placer, bounds, s, LABEL_PT, at, prefer) {
+            if k > 0 {
+                leader(items, placer, at);
+            }
+            items.append(&mut it);
+            return;
+        }
+    }
+    let candidates: Vec<(Point, crate::scene::Anchor)> = tries[1..]
+        .iter()
+        .map(|(at, _)| {
+            (*at, if dir.x > 0.0 { crate::scene::Anchor::End } else { crate::scene::Anchor::Start })
+        })
+        .collect();
+    let boxes: Vec<Rect> = candidates
+        .iter()
+        .map(|(p, a)| crate::draw::text_box(*p, s, LABEL_PT, crate::scene::Weight::Regular, *a))
+        .collect();
+    let k = placer.choose(&boxes, bounds);
+    // Outside the visible window a label would be cut off: leave it out there.
+    if !(bounds.contains(boxes[k].min) && bounds.contains(boxes[k].max)) {
+        return;
+    }
+    placer.block(boxes[k]);
+    leader(items, placer, candidates[k].0 + dir * 1.0);
+    items.push(crate::draw::text(
+        candidates[k].0,
+        s,
+        LABEL_PT,
+        crate::scene::Weight::Regular,
+        candidates[k].1,
+    ));
+}
+
 /// The box (sheet frame) that must be on paper for both drawings: the piece,
 /// the guide lines and ray-box bars, the angle scale with its numbers, the
 /// normal, the traced rays with their emergent parts, extensions and arcs,
@@ -534,7 +594,7 @@ pub fn student<F: Copy + PartialEq>(plan: &AngledPlan<F>, bounds: &Rect, placer:
         let side = off - sk.outward * off.dot(sk.outward);
         let prefer = side.normalized().unwrap_or(g.dir.perp());
         let s = format!("{} {}", g.letter, super::angled_view::angle(g.incidence_deg));
-        label(&mut items, placer, bounds, &s, LABEL_PT, g.start + g.dir * 4.0, prefer);
+        guide_label(&mut items, placer, bounds, &s, g.start, g.dir, prefer);
     }
     if let Some(g) = sk.guides.iter().max_by(|a, b| a.incidence_deg.abs().total_cmp(&b.incidence_deg.abs())) {
         label(&mut items, placer, bounds, "ray box", LABEL_PT, g.start - g.dir * 0.5, -g.dir);
