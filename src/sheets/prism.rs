@@ -455,8 +455,12 @@ impl SheetView for PrismPlan {
             v.push(format!("Safe band i = {:.1}°–{:.1}°: {lo}; {hi}.", band.min, band.max));
         }
         v.push(format!(
-            "Accept ranges: angles ± the value shown (a ±0.5° protractor reading plus a ±{:.1} mm slip at each end of the line drawn). Positive angles lie on the base side of the normal.",
-            self.plan.rules.across_error_mm()
+            "Accept ranges: angles ± the value shown (a ±0.5° protractor reading plus a ±{:.1} mm slip at each end of the line drawn). {}",
+            self.plan.rules.across_error_mm(),
+            match self.entry {
+                PrismEntry::Side => "Positive angles lie on the base side of the normal.",
+                PrismEntry::Base => "Positive angles lean toward the end of the base nearer the ray's way in.",
+            }
         ));
         v
     }
