@@ -351,3 +351,39 @@ fn a_setup_longer_than_the_page_tiles_into_the_hand_computed_page_count() {
         assert!(((pair[0] - pair[1]) - (w - o)).abs() < 1e-9, "tile offsets {offsets:?}");
     }
 }
+
+/// The block and prism outlines print at 1:1: after the `cm` transforms the
+/// stroke drawn at the outline width spans the piece's own sizes, to 0.01 mm.
+/// A block is t × H; an equilateral prism of side s is s wide and s·√3/2 high
+/// (closed form). Both sheets and keys, with the page each lands on.
+#[test]
+fn block_and_prism_outlines_print_at_their_own_size() {
+    let kit = fixture("sheets_angles.toml");
+    let p = paper("A4", Orientation::Auto);
+    let plans = plan_lesson(&kit, &p);
+    let set = scenes(&kit, &plans, &p);
+    let out = build(&kit, &p, PDF_ONLY);
+    let want = [(35.0, 70.0), (45.0, 45.0 * 3f64.sqrt() / 2.0)];
+    for (name, scene) in [("sheets.pdf", &set.sheets), ("keys.pdf", &set.keys)] {
+        let doc = load(file(&out, name));
+        let ids = page_ids(&doc);
+        assert_eq!(ids.len(), scene.pages.len(), "{name}: one page a sheet");
+        for (k, (w, h)) in want.iter().enumerate() {
+            // The piece is the stroke at the outline width inside the drawing
+            // window (the key's plot frame elsewhere on the page is drawn alike).
+            let window = layout::regions(&layout::paper_for(&plans[k], &p)).drawing;
+            let outlines: Vec<Stroked> = stroked_paths(&doc, ids[k])
+                .into_iter()
+                .filter(|s| (s.width_pt / PT_PER_MM - OUTLINE_W_MM).abs() < 1e-4 && s.segs.len() >= 3)
+                .filter(|s| {
+                    let (x0, y0, x1, y1) = extent_mm(s);
+                    x0 >= window.min.x && x1 <= window.max.x && y0 >= window.min.y && y1 <= window.max.y
+                })
+                .collect();
+            assert_eq!(outlines.len(), 1, "{name} page {}: one outline, found {}", k + 1, outlines.len());
+            let (x0, y0, x1, y1) = extent_mm(&outlines[0]);
+            assert!(((x1 - x0) - w).abs() < 0.01, "{name} page {}: width {} mm, want {w}", k + 1, x1 - x0);
+            assert!(((y1 - y0) - h).abs() < 0.01, "{name} page {}: height {} mm, want {h}", k + 1, y1 - y0);
+        }
+    }
+}
