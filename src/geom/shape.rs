@@ -5,7 +5,7 @@
 //! so a convex bulge is an arc swept counterclockwise (positive sweep) and a
 //! hollow is an arc swept clockwise (negative sweep).
 
-use std::f64::consts::TAU;
+use std::f64::consts::{PI, TAU};
 
 use super::{Arc, Placement, Point, Ray, Segment, Vec2, ray_circle_hits};
 
@@ -137,6 +137,10 @@ const END_TOL_MM: f64 = 1e-12;
 #[derive(Clone, Debug, PartialEq)]
 pub struct Shape<F> {
     edges: Vec<Edge<F>>,
+    /// Bounding box, worked out once: (lower-left, upper-right).
+    bounds: (Point, Point),
+    /// Each arc edge's end points, worked out once (`None` for lines).
+    arc_ends: Vec<Option<(Point, Point)>>,
 }
 
 impl<F: Copy> Shape<F> {
@@ -176,7 +180,9 @@ impl<F: Copy> Shape<F> {
                 return Err(ShapeError::Gap { index: i, gap_mm: gap });
             }
         }
-        let shape = Shape { edges };
+        let mut shape =
+            Shape { edges, bounds: (Point::new(0.0, 0.0), Point::new(0.0, 0.0)), arc_ends: Vec::new() };
+        shape.cache();
         let area = shape.signed_area();
         if area.is_nan() || area <= 0.0 {
             return Err(ShapeError::Orientation);
@@ -208,9 +214,26 @@ impl<F: Copy> Shape<F> {
     /// The shape moved by `placement` (a rotation and a translation keep arcs
     /// exact circles).
     pub fn placed(&self, placement: &Placement) -> Shape<F> {
-        Shape {
+        let mut shape = Shape {
             edges: self.edges.iter().map(|e| Edge { path: e.path.placed(placement), face: e.face }).collect(),
-        }
+            bounds: self.bounds,
+            arc_ends: Vec::new(),
+        };
+        shape.cache();
+        shape
+    }
+
+    /// Works out what hit tests reuse: the bounding box and the arcs' end points.
+    fn cache(&mut self) {
+        self.arc_ends = self
+            .edges
+            .iter()
+            .map(|e| match e.path {
+                EdgePath::Arc(a) => Some((a.start(), a.end())),
+                EdgePath::Line(_) => None,
+            })
+            .collect();
+        self.bounds = self.compute_bounds();
     }
 
     /// Every hit of `ray` with the outline beyond `min_s`, in no order.
@@ -230,7 +253,11 @@ impl<F: Copy> Shape<F> {
                             continue;
                         }
                         let p = ray.at(s);
-                        if on_arc(&arc, p) {
+                        let inside = match self.arc_ends[i] {
+                            Some(ends) if arc.sweep_rad.abs() <= PI => in_wedge(&arc, ends, p),
+                            _ => on_arc(&arc, p),
+                        };
+                        if inside {
                             let radial = (p - arc.center) * (1.0 / arc.radius);
                             let outward = if arc.sweep_rad > 0.0 { radial } else { -radial };
                             f(Hit { s, edge: i, face: e.face, point: p, outward });
@@ -256,6 +283,10 @@ impl<F: Copy> Shape<F> {
     /// Whether `p` lies strictly inside (even–odd rule along a ray whose
     /// direction avoids the shape's vertices).
     pub fn contains(&self, p: Point) -> bool {
+        let (lo, hi) = self.bounds;
+        if p.x < lo.x || p.x > hi.x || p.y < lo.y || p.y > hi.y {
+            return false;
+        }
         // An irrational-looking direction keeps the test ray off corners and tangents.
         let Some(ray) = Ray::new(p, Vec2::new(0.853_094_2, 0.521_756_3)) else { return false };
         let mut n = 0usize;
@@ -265,6 +296,10 @@ impl<F: Copy> Shape<F> {
 
     /// Bounding box of the outline: (lower-left, upper-right).
     pub fn bounds(&self) -> (Point, Point) {
+        self.bounds
+    }
+
+    fn compute_bounds(&self) -> (Point, Point) {
         let mut lo = Point::new(f64::INFINITY, f64::INFINITY);
         let mut hi = Point::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
         let mut take = |p: Point| {
@@ -295,6 +330,19 @@ impl<F: Copy> Shape<F> {
     {
         self.edges.iter().filter(move |e| e.face == face)
     }
+}
+
+/// Whether `p` (on the circle of an arc sweeping at most π) lies within the
+/// arc: between its end points in the sense of the sweep, by cross products
+/// (no trigonometry), to [`END_TOL_MM`] along the circle.
+/// The tolerance on a cross product of two radii is r·tol (r² times the angle).
+fn in_wedge(arc: &Arc, (start, end): (Point, Point), p: Point) -> bool {
+    let sense = arc.sweep_rad.signum();
+    let tol = END_TOL_MM * arc.radius;
+    let (a, b, q) = (start - arc.center, end - arc.center, p - arc.center);
+    // For a sweep θ ≤ π (counterclockwise; clockwise mirrors it): a × q ≥ 0
+    // puts q at angles [0, π] from a, q × b ≥ 0 at [θ − π, θ]; together [0, θ].
+    sense * a.cross(q) >= -tol && sense * q.cross(b) >= -tol
 }
 
 /// Whether `p` (on the arc's circle) lies within the arc's sweep, to
@@ -427,6 +475,20 @@ mod tests {
         assert_close(hi.x, 10.0, 1e-12);
         assert_close(lo.y, -10.0, 1e-12);
         assert_close(hi.y, 10.0, 1e-12);
+    }
+
+    proptest::proptest! {
+        #![proptest_config(proptest::prelude::ProptestConfig::with_cases(512))]
+        /// The trigonometry-free wedge test agrees with the angle test for
+        /// every arc of at most half a turn, away from its end points.
+        #[test]
+        fn wedge_test_agrees_with_the_angle_test(start in -7.0f64..7.0, sweep in -PI..PI, at in -7.0f64..7.0, r in 0.5f64..500.0) {
+            let arc = Arc { center: Point::new(3.0, -2.0), radius: r, start_rad: start, sweep_rad: sweep };
+            let p = arc.point_at_angle(at);
+            let near_end = [arc.start(), arc.end()].iter().any(|e| e.distance(p) < 1e-6 * r);
+            proptest::prop_assume!(!near_end);
+            proptest::prop_assert_eq!(in_wedge(&arc, (arc.start(), arc.end()), p), on_arc(&arc, p));
+        }
     }
 
     #[test]

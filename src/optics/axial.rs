@@ -89,7 +89,7 @@ pub fn trace_ray(outline: &Outline, incoming: Ray) -> AxialTrace {
         .events
         .iter()
         .filter(|e| matches!(e.kind, EventKind::Leave | EventKind::TotalReflection))
-        .map(|e| e.incidence_rad)
+        .map(|e| e.incidence_rad())
         .fold(0.0f64, f64::max);
     let exit_dir = tr.final_dir();
     let (exit, outcome) = match tr.end {

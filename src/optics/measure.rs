@@ -96,14 +96,14 @@ pub fn refraction_angle_at<F: Copy + PartialEq>(tr: &Trace<F>, face: F) -> Resul
     tr.events
         .iter()
         .find(|e| e.face == face && e.kind == EventKind::Enter)
-        .and_then(|e| e.refraction_rad)
+        .and_then(|e| e.refraction_rad())
         .ok_or(NotDefined::NotAtFace)
 }
 
 /// Angle of incidence where the ray first meets the piece, radians from the
 /// normal of that face.
 pub fn incidence_angle<F: Copy>(tr: &Trace<F>) -> Result<f64, NotDefined> {
-    tr.events.first().map(|e| e.incidence_rad).ok_or(NotDefined::Missed)
+    tr.events.first().map(|e| e.incidence_rad()).ok_or(NotDefined::Missed)
 }
 
 /// Angle of emergence: the angle in air from the normal of the face the ray
@@ -114,7 +114,7 @@ pub fn emergence_angle_rad<F: Copy>(tr: &Trace<F>) -> Result<f64, NotDefined> {
         .iter()
         .rev()
         .find(|e| e.kind == EventKind::Leave)
-        .and_then(|e| e.refraction_rad)
+        .and_then(|e| e.refraction_rad())
         .ok_or(NotDefined::Trapped)
 }
 

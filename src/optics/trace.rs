@@ -31,12 +31,20 @@ pub struct Event<F> {
     pub dir_in: Vec2,
     /// Unit direction after the event.
     pub dir_out: Vec2,
+}
+
+impl<F> Event<F> {
     /// Angle of incidence, radians, from the face's normal on the side the
     /// light comes from, in [0, π/2].
-    pub incidence_rad: f64,
+    pub fn incidence_rad(&self) -> f64 {
+        angle_from_normal(self.dir_in, self.outward)
+    }
+
     /// Angle of refraction, radians, from the normal on the far side, in
     /// [0, π/2]; `None` for a total reflection.
-    pub refraction_rad: Option<f64>,
+    pub fn refraction_rad(&self) -> Option<f64> {
+        (self.kind != EventKind::TotalReflection).then(|| angle_from_normal(self.dir_out, self.outward))
+    }
 }
 
 /// How a trace ends.
@@ -118,13 +126,9 @@ pub fn trace<F: Copy>(shape: &Shape<F>, index: f64, incoming: Ray) -> Trace<F> {
             return Trace { incoming, events, end };
         };
         let (n1, n2) = if inside { (index, 1.0) } else { (1.0, index) };
-        let incidence_rad = angle_from_normal(ray.dir, hit.outward);
-        let (kind, dir_out, refraction_rad) = match refract(ray.dir, hit.outward, n1, n2) {
-            Refraction::Refracted(d) => {
-                let kind = if inside { EventKind::Leave } else { EventKind::Enter };
-                (kind, d, Some(angle_from_normal(d, hit.outward)))
-            }
-            Refraction::Reflected(d) => (EventKind::TotalReflection, d, None),
+        let (kind, dir_out) = match refract(ray.dir, hit.outward, n1, n2) {
+            Refraction::Refracted(d) => (if inside { EventKind::Leave } else { EventKind::Enter }, d),
+            Refraction::Reflected(d) => (EventKind::TotalReflection, d),
         };
         match kind {
             EventKind::Enter => inside = true,
@@ -141,8 +145,6 @@ pub fn trace<F: Copy>(shape: &Shape<F>, index: f64, incoming: Ray) -> Trace<F> {
             outward: hit.outward,
             dir_in: ray.dir,
             dir_out,
-            incidence_rad,
-            refraction_rad,
         });
         ray = Ray { origin: hit.point, dir: dir_out };
     }
@@ -179,9 +181,9 @@ mod tests {
         let (e0, e1) = (tr.events[0], tr.events[1]);
         assert_eq!((e0.face, e0.kind), (BlockFace::Entry, EventKind::Enter));
         assert_eq!((e1.face, e1.kind), (BlockFace::Exit, EventKind::Leave));
-        assert_close(e0.incidence_rad.to_degrees(), i, 1e-12);
-        assert_close(e0.refraction_rad.unwrap().sin(), i.to_radians().sin() / n, 1e-14);
-        assert_close(e1.refraction_rad.unwrap().to_degrees(), i, 1e-9);
+        assert_close(e0.incidence_rad().to_degrees(), i, 1e-12);
+        assert_close(e0.refraction_rad().unwrap().sin(), i.to_radians().sin() / n, 1e-14);
+        assert_close(e1.refraction_rad().unwrap().to_degrees(), i, 1e-9);
         assert!(matches!(tr.end, End::Left { face: BlockFace::Exit, .. }));
     }
 
@@ -264,7 +266,7 @@ mod tests {
             prop_assert_eq!(t0.events.len(), t1.events.len());
             for (e0, e1) in t0.events.iter().zip(&t1.events) {
                 prop_assert_eq!(e0.face, e1.face);
-                prop_assert!((e0.incidence_rad - e1.incidence_rad).abs() < 1e-9);
+                prop_assert!((e0.incidence_rad() - e1.incidence_rad()).abs() < 1e-9);
                 prop_assert!((place.apply(e0.at) - e1.at).length() < 1e-9);
             }
         }

@@ -277,7 +277,7 @@ impl<F: Copy + PartialEq> AngledSetup<F> {
         }
         let crit = (1.0 / self.index).asin().to_degrees();
         for e in &tr.events[1..] {
-            let inc = e.incidence_rad.to_degrees();
+            let inc = e.incidence_rad().to_degrees();
             // A face parallel to the entry face always lets the ray out (it meets it at
             // the angle of refraction, below θc), so no margin is needed there.
             let parallel_exit = e.outward.dot(self.outward) < -1.0 + 1e-12;

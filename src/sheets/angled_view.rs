@@ -143,8 +143,8 @@ pub fn rays_json<F: FaceName>(plan: &AngledPlan<F>, shift: bool) -> Vec<Value> {
                             EventKind::TotalReflection => "total-internal-reflection",
                         },
                         "point_mm": [e.at.x + 0.0, e.at.y + 0.0],
-                        "incidence_deg": e.incidence_rad.to_degrees(),
-                        "refraction_deg": e.refraction_rad.map(f64::to_degrees),
+                        "incidence_deg": e.incidence_rad().to_degrees(),
+                        "refraction_deg": e.refraction_rad().map(f64::to_degrees),
                     })
                 })
                 .collect();
