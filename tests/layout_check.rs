@@ -515,14 +515,12 @@ fn report(what: &str, defects: &[String]) {
 }
 
 #[test]
-#[ignore = "fails on today's layout (see the commit message); the label fixes that follow turn it on"]
 fn the_demo_kit_lays_out_cleanly() {
     let lesson = Lesson::from_toml(DEMO_KIT, "demo").expect("demo kit");
     report("demo kit", &kit_defects(&lesson));
 }
 
 #[test]
-#[ignore = "fails on today's layout (see the commit message); the label fixes that follow turn it on"]
 fn every_valid_fixture_lays_out_cleanly() {
     let dir = format!("{}/tests/fixtures", env!("CARGO_MANIFEST_DIR"));
     let mut names: Vec<String> = std::fs::read_dir(&dir)
@@ -636,7 +634,6 @@ fn random_kit(kind: u8, a: f64, b: f64, c: f64, n: f64, rays: u32, paper: &str) 
 proptest! {
     #![proptest_config(ProptestConfig { cases: 24, max_shrink_iters: 16, ..ProptestConfig::default() })]
     #[test]
-    #[ignore = "fails on today's layout; the label fixes that follow turn it on"]
     fn random_kits_of_every_kind_lay_out_cleanly(
         kind in 0u8..5, a in 0.0f64..1.0, b in 0.0f64..1.0, c in 0.0f64..1.0,
         n in 1.45f64..1.6, rays in 1u32..6, letter in proptest::bool::ANY,
