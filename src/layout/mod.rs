@@ -503,13 +503,13 @@ fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, 
     } else if role == Role::Student
         && let Some(msg) = p.view().student_note()
     {
-        out.push(text(
-            Point::new(upper.min.x, upper.min.y + 6.0),
-            &msg,
-            BODY_PT,
-            Weight::Regular,
-            Anchor::Start,
-        ));
+        // Wrapped to the room left of the vertical scale bar, the last line where one line would be.
+        let lines = wrap(&msg, BODY_PT, Weight::Regular, upper.width());
+        let n = lines.len() as f64;
+        for (i, l) in lines.iter().enumerate() {
+            let y = upper.min.y + 6.0 + (n - 1.0 - i as f64) * leading(BODY_PT);
+            out.push(text(Point::new(upper.min.x, y), l, BODY_PT, Weight::Regular, Anchor::Start));
+        }
     }
     out
 }

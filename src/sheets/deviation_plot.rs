@@ -89,15 +89,22 @@ pub fn deviation_plot<F: Copy + PartialEq>(plan: &AngledPlan<F>, rect: Rect) -> 
         let s = format!("minimum deviation {}° at i = {}°", fmt1(d_min), fmt1(i_min));
         label(&mut items, &mut placer, &room, &s, SMALL_PT, at, Vec2::new(0.0, 1.0));
     }
-    for r in &plan.rays {
-        let (Ok(d), true) = (r.deviation_deg, r.path_ok) else { continue };
-        if !((x0..=x1).contains(&r.incidence_deg) && (y0..=y1).contains(&d)) {
-            continue;
-        }
-        let at = map(r.incidence_deg, d);
+    // Every ray's dot first, so no letter is placed over a later ray's dot.
+    let dots: Vec<(Point, &str)> = plan
+        .rays
+        .iter()
+        .filter_map(|r| {
+            let (Ok(d), true) = (r.deviation_deg, r.path_ok) else { return None };
+            ((x0..=x1).contains(&r.incidence_deg) && (y0..=y1).contains(&d))
+                .then(|| (map(r.incidence_deg, d), r.letter.as_str()))
+        })
+        .collect();
+    for &(at, _) in &dots {
         items.push(Item::Marker { at, shape: MarkerShape::Dot, size_mm: 1.4, stroke: Stroke::solid(0.2) });
         block_spot(&mut placer, at, 0.8);
-        label(&mut items, &mut placer, &room, &r.letter, SMALL_PT, at, Vec2::new(0.0, -1.0));
+    }
+    for &(at, letter) in &dots {
+        label(&mut items, &mut placer, &room, letter, SMALL_PT, at, Vec2::new(0.0, -1.0));
     }
     items.push(text(
         Point::new(inner.min.x, rect.max.y - 4.0),

@@ -2,7 +2,7 @@
 //! vertex, y up, mm): what the student sheet shows, and what the key adds.
 
 use super::LensPlan as SheetPlan;
-use crate::draw::{Drawing, Placer};
+use crate::draw::{Drawing, Placer, place_near, text, text_box};
 use crate::geom::{Arc, Point, Vec2};
 use crate::optics::{Boundary, Face, Outcome, Outline};
 use crate::plan::fmt_mm;
@@ -68,6 +68,13 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     for r in &plan.rays {
         let tr = &r.trace;
         d.placer.block_path(&tr.path[1.min(tr.path.len())..]);
+        // The key draws the outgoing ray on toward the window's edge, with its trace-back points.
+        if let Some((p, _)) = tr.exit {
+            d.placer.block_line(p, clip_to(p, p + tr.exit_dir * 5000.0, &bounds));
+        }
+        for p in r.trace_back.iter().flatten() {
+            d.placer.block(Rect::from_corners(*p - Vec2::new(0.8, 0.8), *p + Vec2::new(0.8, 0.8)));
+        }
         if let (Some(x), Some((p, _))) = (r.crossing_from_entry_mm, tr.exit) {
             d.placer.block_line(p, Point::new(x, 0.0));
             d.placer.block(Rect::from_corners(Point::new(x - 2.0, -2.0), Point::new(x + 2.0, 2.0)));
@@ -76,8 +83,13 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     if let Some(f) = plan.paraxial.rear_focus_x() {
         d.placer.block(Rect::from_corners(Point::new(f - 2.0, -2.0), Point::new(f + 2.0, 2.0)));
     }
-    // Optical axis.
-    let axis_a = Point::new(s.x_min + 2.0, 0.0);
+    // Ray box: where it stands.
+    let hmax = plan.rays.iter().map(|r| r.height_mm.abs()).fold(0.0, f64::max);
+    let box_half = (hmax + 6.0).min(s.y_max - 1.0).max(10.0);
+    let bx0 = s.x_min + 1.0;
+    let bx1 = bx0 + 9.0;
+    // Optical axis, from the ray box on (through the box it would cross the box's words).
+    let axis_a = Point::new(bx1, 0.0);
     let axis_b = Point::new(s.x_max - 1.0, 0.0);
     d.items.push(line(axis_a, axis_b, Stroke::solid(THIN_W).dashed(AXIS_DASH)));
     d.placer.block_line(axis_a, axis_b);
@@ -89,7 +101,7 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     let reach = (a + 10.0).min(s.y_max - 1.0);
     let (lx, name) = match (plan.kind, o.entry_face) {
         (SheetKind::CurvedFace, Face::Flat) => (0.0, "flat face"),
-        _ => (o.t() / 2.0, "centre line"),
+        _ => (centre_line_x(o), "centre line"),
     };
     let top = Point::new(lx, reach);
     d.items.push(line(Point::new(lx, -reach), top, Stroke::solid(THIN_W).dashed(LINE_DASH)));
@@ -101,11 +113,6 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
         LABEL_PT,
         &[(Point::new(lx, reach + 1.2), Anchor::Middle), (Point::new(lx + 1.5, reach - 2.5), Anchor::Start)],
     );
-    // Ray box: where it stands.
-    let hmax = plan.rays.iter().map(|r| r.height_mm.abs()).fold(0.0, f64::max);
-    let box_half = (hmax + 6.0).min(s.y_max - 1.0).max(10.0);
-    let bx0 = s.x_min + 1.0;
-    let bx1 = bx0 + 9.0;
     let rb = Rect::from_corners(Point::new(bx0, -box_half), Point::new(bx1, box_half));
     d.items.push(Item::Box {
         rect: rb,
@@ -122,36 +129,38 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
         rotate_deg: 90.0,
         gray: 0.0,
     });
-    // Guide lines.
-    for r in plan.rays_top_down() {
-        let h = r.height_mm;
-        let start = Point::new(bx1 + 1.0, h);
-        let end = Point::new(o.entry_x(h) - 1.0, h);
+    // Guide lines, with the arrowhead near the piece so the label has the
+    // line's start to itself.
+    let guides: Vec<(f64, Point, Point)> = plan
+        .rays_top_down()
+        .iter()
+        .map(|r| {
+            (
+                r.height_mm,
+                Point::new(bx1 + 1.0, r.height_mm),
+                Point::new(o.entry_x(r.height_mm) - 1.0, r.height_mm),
+            )
+        })
+        .collect();
+    for &(h, start, end) in &guides {
         d.items.push(line(start, end, Stroke::solid(GUIDE_W)));
         d.placer.block_line(start, end);
-        let mid = Point::new(start.x + (end.x - start.x) * 0.55, h);
+        let tip = Point::new(start.x + (end.x - start.x) * 0.85, h);
         d.items.push(Item::Arrowhead {
-            tip: mid,
+            tip,
             dir: Vec2::new(1.0, 0.0),
             length_mm: 3.0,
             width_mm: 1.8,
             gray: 0.0,
         });
+        d.placer.block(Rect::from_corners(Point::new(tip.x - 3.0, h - 0.9), Point::new(tip.x, h + 0.9)));
+    }
+    // The lines a guide label could be read against: every guide and the axis.
+    let mut across: Vec<f64> = guides.iter().map(|g| g.0).collect();
+    across.push(0.0);
+    for (r, &(h, start, end)) in plan.rays_top_down().iter().zip(&guides) {
         let label = format!("{} {}", r.letter, signed(h));
-        place_label(
-            &mut d,
-            &bounds,
-            &label,
-            LABEL_PT,
-            &[
-                (Point::new(start.x + 1.0, h + 1.0), Anchor::Start),
-                (Point::new(start.x + 1.0, h - 3.2), Anchor::Start),
-                (Point::new(mid.x - 5.0, h + 1.0), Anchor::End),
-                (Point::new(mid.x - 5.0, h - 3.2), Anchor::End),
-                (Point::new(start.x + 1.0, h + 2.6), Anchor::Start),
-                (Point::new(start.x + 1.0, h - 4.8), Anchor::Start),
-            ],
-        );
+        guide_label(&mut d, &bounds, &label, (h, start, end), &across);
     }
     // The axis label last, between the ray box and the piece (where the key's
     // crossings never fall), clear of the guide labels.
@@ -164,8 +173,62 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
         cands.push((Point::new(x, 1.4), Anchor::Middle));
     }
     cands.push((Point::new(s.x_max - 2.0, 1.4), Anchor::End));
-    place_label(&mut d, &bounds, "optical axis", LABEL_PT, &cands);
+    cands.push((Point::new(s.x_max - 2.0, -3.4), Anchor::End));
+    // Only where it is free: the axis is named in the instructions too.
+    let boxes: Vec<Rect> =
+        cands.iter().map(|(p, a)| text_box(*p, "optical axis", LABEL_PT, Weight::Regular, *a)).collect();
+    if let Some(k) = d.placer.try_choose(&boxes, &bounds) {
+        d.items.push(text(cands[k].0, "optical axis", LABEL_PT, Weight::Regular, cands[k].1));
+    }
     d
+}
+
+/// A guide line's label, beside the line (above it, else below it, from the
+/// line's start onward) and nearer to its own line than to any other guide or
+/// the axis, so it cannot be read against the wrong line. When no such place
+/// is free, the letter alone goes at the line's start, just above it; the
+/// height is in the table.
+fn guide_label(d: &mut Drawing, bounds: &Rect, label: &str, guide: (f64, Point, Point), across: &[f64]) {
+    let (h, start, end) = guide;
+    let gap = |r: &Rect, y: f64| (r.min.y - y).max(y - r.max.y).max(0.0);
+    let own_side =
+        |r: &Rect| across.iter().filter(|&&y| (y - h).abs() > 1e-9).all(|&y| gap(r, y) > gap(r, h) + 0.3);
+    let room = (end.x - start.x - 4.0).max(0.0);
+    let mut cands: Vec<(Point, Anchor)> = Vec::new();
+    for k in 0..6 {
+        let x = start.x + 1.0 + room * f64::from(k) / 8.0;
+        for dy in [1.0, -3.2, 1.6, -3.8] {
+            cands.push((Point::new(x, h + dy), Anchor::Start));
+        }
+    }
+    let fits = |s: &str, c: &(Point, Anchor)| own_side(&text_box(c.0, s, LABEL_PT, Weight::Regular, c.1));
+    let near: Vec<(Point, Anchor)> = cands.iter().copied().filter(|c| fits(label, c)).collect();
+    let boxes: Vec<Rect> =
+        near.iter().map(|(p, a)| text_box(*p, label, LABEL_PT, Weight::Regular, *a)).collect();
+    if let Some(k) = d.placer.try_choose(&boxes, bounds) {
+        d.items.push(text(near[k].0, label, LABEL_PT, Weight::Regular, near[k].1));
+        return;
+    }
+    let letter: String = label.split(' ').next().unwrap_or(label).to_string();
+    let near: Vec<(Point, Anchor)> = cands.iter().copied().filter(|c| fits(&letter, c)).collect();
+    if !near.is_empty() {
+        place_label(d, bounds, &letter, LABEL_PT, &near);
+    }
+}
+
+/// Where a lens shape's centre line is drawn: a half-disc's (one flat face,
+/// the other's centre of curvature on it) at that centre, on the flat face;
+/// any other piece at mid-thickness.
+pub fn centre_line_x(o: &Outline) -> f64 {
+    for b in [Boundary::Entry, Boundary::Exit] {
+        if let Some(c) = o.center(b)
+            && (c.x.abs() < 1e-6 && o.entry_face == Face::Flat
+                || (c.x - o.t()).abs() < 1e-6 && o.exit_face == Face::Flat)
+        {
+            return c.x;
+        }
+    }
+    o.t() / 2.0
 }
 
 /// A height with its sign: `+12.5 mm`, `−8 mm`, `0 mm`.
@@ -225,8 +288,9 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
                     size_mm: 1.6,
                     stroke: Stroke::solid(THIN_W),
                 });
+                base.placer.block(Rect::from_corners(*p - Vec2::new(0.8, 0.8), *p + Vec2::new(0.8, 0.8)));
                 let lbl = format!("{}{}", r.letter, j + 1);
-                let up = if r.height_mm >= 0.0 { 1.2 } else { -3.4 };
+                let up = if r.height_mm >= 0.0 { 1.6 } else { -3.8 };
                 let mut d2 = Drawing { items: Vec::new(), placer: std::mem::take(&mut base.placer) };
                 place_label(
                     &mut d2,
@@ -250,84 +314,117 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
             }
         }
     }
-    // Crossing marks, labelled below the axis, stacked to stay apart.
+    // Crossing marks. Marks closer together than a label is tall share one
+    // label (a cluster): its letters in ray order and the range of their
+    // values, each value being in the key's table. Labels go below the axis
+    // where there is room, with a leader to their mark when they stand off.
     marks.sort_by(|a, b| a.0.total_cmp(&b.0));
     let (ref_x, ref_words) = plan.measure_from();
-    let reference = (ref_words, ref_x);
-    for (x, letters, is_virtual) in &marks {
-        let at = Point::new(*x, 0.0);
+    for (x, _, _) in &marks {
         items.push(Item::Marker {
-            at,
+            at: Point::new(*x, 0.0),
             shape: MarkerShape::Saltire,
             size_mm: 2.6,
             stroke: Stroke::solid(0.3),
         });
-        let dist = x - reference.1;
-        let value = if *is_virtual {
-            format!("{}: {} mm before the exit face", letters.join(", "), fmt1(-dist))
-        } else {
-            format!("{}: {} mm {}", letters.join(", "), fmt1(dist), reference.0)
-        };
-        // A virtual crossing's dashed extensions fan out to its right, so its
-        // label goes first to its left, just off the axis.
-        let mut cands: Vec<(Point, Anchor)> = Vec::new();
-        if *is_virtual {
-            for dx in [2.0, 6.0] {
-                cands.push((Point::new(x - dx, 1.2), Anchor::End));
-                cands.push((Point::new(x - dx, -3.4), Anchor::End));
-            }
-        }
-        cands.extend((0..8).flat_map(|k| {
-            let dy = 3.2 + 3.4 * f64::from(k);
-            [
-                (Point::new(*x, -dy - 1.5), Anchor::Middle),
-                (Point::new(*x, dy), Anchor::Middle),
-                (Point::new(*x + 2.0, -dy - 1.5), Anchor::End),
-                (Point::new(*x - 2.0, -dy - 1.5), Anchor::Start),
-            ]
-        }));
-        let mut d2 = Drawing { items: Vec::new(), placer: std::mem::take(&mut base.placer) };
-        place_label(&mut d2, &bounds, &value, 6.5, &cands);
-        base.placer = d2.placer;
-        items.extend(d2.items);
     }
-    // Paraxial focus and rear principal plane.
+    let label_h = LABEL_PT * crate::scene::MM_PER_PT;
+    let mut clusters: Vec<Vec<&(f64, Vec<String>, bool)>> = Vec::new();
+    for m in &marks {
+        match clusters.last_mut() {
+            Some(c) if c.last().is_some_and(|l| m.0 - l.0 < label_h && l.2 == m.2) => c.push(m),
+            _ => clusters.push(vec![m]),
+        }
+    }
+    for c in &clusters {
+        let mut letters: Vec<String> = c.iter().flat_map(|m| m.1.iter().cloned()).collect();
+        letters.sort();
+        let is_virtual = c[0].2;
+        let dists: Vec<f64> = c.iter().map(|m| if is_virtual { ref_x - m.0 } else { m.0 - ref_x }).collect();
+        let (lo, hi) =
+            (dists.iter().copied().fold(f64::MAX, f64::min), dists.iter().copied().fold(f64::MIN, f64::max));
+        let value = if c.len() == 1 { fmt1(lo) } else { format!("{}\u{2013}{}", fmt1(lo), fmt1(hi)) };
+        let words = if is_virtual { "before the exit face" } else { ref_words };
+        let full = format!("{}: {value} mm {words}", letters.join(", "));
+        let at = Point::new((c[0].0 + c[c.len() - 1].0) / 2.0, 0.0);
+        // A virtual crossing's dashed extensions fan out to its right: its label goes left.
+        let prefer = if is_virtual { Vec2::new(-1.0, -0.3) } else { Vec2::new(0.0, -1.0) };
+        let placed = stacked_label(&mut base.placer, &bounds, &full, at)
+            .or_else(|| place_near(&mut base.placer, &bounds, &full, 6.5, at, prefer))
+            .or_else(|| place_near(&mut base.placer, &bounds, &letters.join(","), 6.5, at, prefer));
+        items.extend(placed.unwrap_or_default());
+    }
+    // Paraxial focus: its value is in the key's text; the label goes where it is free.
     if let Some(f) = plan.paraxial.rear_focus_x() {
         let at = Point::new(f, 0.0);
         items.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 2.4, stroke: Stroke::solid(0.25) });
         let text_s = if f < o.t() {
             format!("virtual focus (paraxial): {} mm before the exit face", fmt1(o.t() - f))
         } else {
-            format!("paraxial focus: {} mm {}", fmt1(f - reference.1), reference.0)
+            format!("paraxial focus: {} mm {}", fmt1(f - ref_x), ref_words)
         };
-        let cands: Vec<(Point, Anchor)> = (0..8)
-            .flat_map(|k| {
-                let dy = 3.4 + 3.4 * f64::from(k);
-                [
-                    (Point::new(f, dy), Anchor::Middle),
-                    (Point::new(f, -dy - 1.5), Anchor::Middle),
-                    (Point::new(f + 2.0, dy), Anchor::End),
-                    (Point::new(f - 2.0, dy), Anchor::Start),
-                ]
-            })
-            .collect();
-        let mut d2 = Drawing { items: Vec::new(), placer: std::mem::take(&mut base.placer) };
-        place_label(&mut d2, &bounds, &text_s, 6.5, &cands);
-        base.placer = d2.placer;
-        items.extend(d2.items);
+        let placed = stacked_label(&mut base.placer, &bounds, &text_s, at)
+            .or_else(|| place_near(&mut base.placer, &bounds, &text_s, 6.5, at, Vec2::new(0.0, 1.0)))
+            .or_else(|| {
+                place_near(&mut base.placer, &bounds, "paraxial focus", 6.5, at, Vec2::new(0.0, 1.0))
+            });
+        items.extend(placed.unwrap_or_default());
     }
     if let Some(h) = plan.paraxial.rear_principal_mm() {
         let x = o.t() + h;
         if (x - o.t()).abs() > 0.3 {
             let reach = o.a() * 0.6;
+            let (a, b) = (Point::new(x, -reach), Point::new(x, reach));
             items.push(Item::Line {
-                from: Point::new(x, -reach),
-                to: Point::new(x, reach),
+                from: a,
+                to: b,
                 stroke: Stroke::solid(THIN_W).gray(0.4).dashed(Dash::Dashed { on_mm: 1.0, off_mm: 1.0 }),
             });
+            base.placer.block_soft_line(a, b);
+            let placed =
+                place_near(&mut base.placer, &bounds, "rear principal plane", 6.0, b, Vec2::new(0.3, 1.0))
+                    .or_else(|| {
+                        place_near(&mut base.placer, &bounds, "H\u{2032}", 6.0, b, Vec2::new(0.3, 1.0))
+                    });
+            items.extend(placed.unwrap_or_default());
         }
     }
     items
+}
+
+/// A value label straight above or below its mark on the axis, stacked
+/// further off until it is free, with a leader (which may cross the traced
+/// rays) once it stands 3 mm or more away; `None` when nothing is free.
+fn stacked_label(placer: &mut Placer, bounds: &Rect, s: &str, at: Point) -> Option<Vec<Item>> {
+    for k in 0..8 {
+        let dy = 3.2 + 3.4 * f64::from(k);
+        for p in [Point::new(at.x, -dy - 1.5), Point::new(at.x, dy)] {
+            let b = text_box(p, s, 6.5, Weight::Regular, Anchor::Middle);
+            let inside = bounds.contains(b.min) && bounds.contains(b.max);
+            if !inside || !placer.is_free(&b, 0.3) {
+                continue;
+            }
+            let (near_y, dir) = if b.min.y > at.y { (b.min.y, 1.0) } else { (b.max.y, -1.0) };
+            let leader = ((near_y - at.y).abs() >= 3.0)
+                .then(|| (Point::new(at.x, at.y + dir * 1.6), Point::new(at.x, near_y - dir * 0.3)));
+            // A leader runs straight to the label, past no other label.
+            if let Some((from, to)) = leader {
+                let span = Rect::from_corners(from, to);
+                let clear = |r: &Rect| r.max.x < at.x || r.min.x > at.x || !r.overlaps(&span);
+                if !placer.boxes().iter().all(clear) {
+                    continue;
+                }
+            }
+            placer.block(b);
+            let mut items = vec![text(p, s, 6.5, Weight::Regular, Anchor::Middle)];
+            if let Some((from, to)) = leader {
+                placer.block_line(from, to);
+                items.push(Item::Line { from, to, stroke: Stroke::solid(0.15).gray(0.35) });
+            }
+            return Some(items);
+        }
+    }
+    None
 }
 
 fn fmt1(v: f64) -> String {
