@@ -351,7 +351,13 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
         let prefer = if is_virtual { Vec2::new(-1.0, -0.3) } else { Vec2::new(0.0, -1.0) };
         let placed = stacked_label(&mut base.placer, &bounds, &full, at)
             .or_else(|| place_near(&mut base.placer, &bounds, &full, 6.5, at, prefer))
-            .or_else(|| place_near(&mut base.placer, &bounds, &letters.join(","), 6.5, at, prefer));
+            .or_else(|| {
+                // The letters alone (the values are in the key's table), in the
+                // first free direction round the mark.
+                [prefer, Vec2::new(0.0, -1.0), Vec2::new(0.0, 1.0), Vec2::new(-1.0, 0.0), Vec2::new(1.0, 0.0)]
+                    .into_iter()
+                    .find_map(|d| place_near(&mut base.placer, &bounds, &letters.join(","), 6.5, at, d))
+            });
         items.extend(placed.unwrap_or_default());
     }
     // Paraxial focus: its value is in the key's text; the label goes where it is free.
