@@ -336,3 +336,73 @@ fn edited_templates_reach_the_sheets_and_bad_ones_are_located() {
     assert_code(&none, 2);
     assert!(text(&none.stderr).contains("curved-face.toml"), "{}", text(&none.stderr));
 }
+
+/// The demo kit's text, written into `dir` as `k.toml`.
+fn demo_kit_in(dir: &Path) -> String {
+    let out = raysheet(&["demo", "--print-kit"], dir);
+    assert_code(&out, 0);
+    let path = dir.join("k.toml");
+    std::fs::write(&path, &out.stdout).unwrap();
+    path.to_string_lossy().into_owned()
+}
+
+fn pdf_pages(path: &Path) -> Vec<[f32; 4]> {
+    let doc = lopdf::Document::load(path).expect("lopdf reads the PDF");
+    doc.get_pages()
+        .into_values()
+        .map(|id| {
+            let page = doc.get_dictionary(id).unwrap();
+            let b = page.get(b"MediaBox").unwrap().as_array().unwrap();
+            let n: Vec<f32> = b.iter().map(|o| o.as_float().unwrap()).collect();
+            [n[0], n[1], n[2], n[3]]
+        })
+        .collect()
+}
+
+/// Issue 12, finding 1: `--paper 148x210` (A5) wrote PDFs with no pages and
+/// exited 0. Now every sheet is printed, tiled on portrait A5 pages.
+#[test]
+fn small_paper_a5_exit_0_with_empty_pdfs() {
+    let tmp = tempfile::tempdir().unwrap();
+    let kit = demo_kit_in(tmp.path());
+    let out_dir = tmp.path().join("a5");
+    let out =
+        raysheet(&["build", &kit, "--out", out_dir.to_str().unwrap(), "--paper", "148x210"], tmp.path());
+    assert_code(&out, 0);
+    let sheets = pdf_pages(&out_dir.join("sheets.pdf"));
+    let keys = pdf_pages(&out_dir.join("keys.pdf"));
+    // The demo kit has 8 sheets; each needs at least one page.
+    assert!(sheets.len() >= 8, "{} pages", sheets.len());
+    assert_eq!(sheets.len(), keys.len());
+    // ISO 216 A5 is 148 × 210 mm = 419.53 × 595.28 pt, here in portrait.
+    for b in sheets.iter().chain(&keys) {
+        assert!((b[2] - 419.53).abs() < 0.01 && (b[3] - 595.28).abs() < 0.01, "{b:?}");
+    }
+    let svgs = outputs(&out_dir).into_iter().filter(|f| f.starts_with("svg/")).count();
+    assert_eq!(svgs, sheets.len() + keys.len());
+}
+
+/// Issue 12, finding 1: paper whose drawing window would be 12 mm or less
+/// (a 172 mm short side in landscape was "tiled over 1000000000 pages") is
+/// refused with exit 2 and the smallest paper that works; `auto` turns it to
+/// portrait and prints.
+#[test]
+fn small_paper_refused_with_the_smallest_paper_that_works() {
+    let tmp = tempfile::tempdir().unwrap();
+    let kit = demo_kit_in(tmp.path());
+    let out_dir = tmp.path().join("o");
+    let o = out_dir.to_str().unwrap();
+    for args in [
+        ["--paper", "172x250", "--orientation", "landscape"],
+        ["--paper", "120x199", "--orientation", "auto"],
+    ] {
+        let out = raysheet(&[&["build", &kit, "--out", o][..], &args[..]].concat(), tmp.path());
+        assert_code(&out, 2);
+        let err = text(&out.stderr);
+        assert!(err.contains("at least 120 × 200 mm in portrait") && err.contains("A5"), "{err}");
+        assert!(!out_dir.exists(), "nothing written for {args:?}");
+    }
+    let out = raysheet(&["build", &kit, "--out", o, "--paper", "172x250"], tmp.path());
+    assert_code(&out, 0);
+    assert!(pdf_pages(&out_dir.join("sheets.pdf")).len() >= 8);
+}

@@ -688,6 +688,19 @@ fn custom_paper_too_small_or_half_given() {
     );
 }
 
+/// Issue 12, finding 1: paper too short for the sheet's bands and a drawing
+/// (150 × 190 mm leaves 30 mm for the drawing in portrait) is refused at the
+/// `[paper]` table, with the smallest paper that works.
+#[test]
+fn small_paper_exit_0_with_empty_pdfs_refused_in_the_kit() {
+    let text = format!("{BASE}\n[paper]\nwidth_mm = 150\nheight_mm = 190\n");
+    let (line, _) = at(&text, "[paper]");
+    check(&error(&text), Expect { line, col: None, field: "paper", hint: &["at least 120 × 200 mm", "A5"] });
+    // A5 itself is accepted.
+    let text = format!("{BASE}\n[paper]\nwidth_mm = 148\nheight_mm = 210\n");
+    assert!(Lesson::from_toml(&text, "kit.toml").is_ok());
+}
+
 // ---------------------------------------------------------------- sheet words
 
 #[test]

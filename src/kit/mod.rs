@@ -637,11 +637,20 @@ impl Validator<'_> {
             }
         }
         if let Err(msg) = spec.check() {
-            let hint = format!(
-                "give paper at least {:.1} mm wide on its short side with a {} mm margin",
-                crate::paper::MIN_PRINTABLE_MM + 2.0 * spec.margin_mm,
-                spec.margin_mm
-            );
+            let narrow = spec.size.width_mm - 2.0 * spec.margin_mm < crate::paper::MIN_PRINTABLE_MM;
+            let hint = if narrow {
+                format!(
+                    "give paper at least {:.1} mm wide on its short side with a {} mm margin",
+                    crate::paper::MIN_PRINTABLE_MM + 2.0 * spec.margin_mm,
+                    spec.margin_mm
+                )
+            } else {
+                let (w, h) = spec.smallest_paper_mm();
+                format!(
+                    "give paper at least {w:.0} × {h:.0} mm with a {} mm margin, such as A5",
+                    spec.margin_mm
+                )
+            };
             return self.err(whole, "paper".into(), msg, &hint);
         }
         Ok(spec)

@@ -134,7 +134,8 @@ pub(crate) fn lead_in_for(paraxial: &Paraxial, paper: &PaperSpec) -> f64 {
     let (page_w, _) = paper.page_mm();
     let printable = page_w - 2.0 * paper.margin_mm;
     match paraxial.rear_focus_x() {
-        Some(x) if x < 0.0 => (-x + 25.0).clamp(LEAD_IN_MM, printable * 0.6),
+        // max then min, not clamp: tiny paper must not panic.
+        Some(x) if x < 0.0 => (-x + 25.0).min(printable * 0.6).max(LEAD_IN_MM),
         _ => LEAD_IN_MM,
     }
 }
