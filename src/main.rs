@@ -2,6 +2,7 @@
 //! prints and writes what comes back, and maps errors to exit codes (0 success,
 //! 2 bad input or usage, 1 anything else). No logic lives here.
 
+use std::io::Write;
 use std::path::Path;
 use std::process::ExitCode;
 
@@ -34,23 +35,41 @@ fn read_inputs(wanted: &Wanted) -> Inputs {
     }
 }
 
+/// Prints to standard output. A reader that went away (`raysheet … | head -1`)
+/// is not a failure: the work is done, so the rest of the text is dropped.
+fn say(text: &str) -> Result<(), Failure> {
+    let mut out = std::io::stdout().lock();
+    match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+        Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => {
+            Err(Failure::Other(format!("cannot write to standard output: {e}")))
+        }
+        _ => Ok(()),
+    }
+}
+
+/// Prints one line to standard error; a closed standard error is ignored (there
+/// is nowhere left to say anything).
+fn tell(line: &str) {
+    let _ = writeln!(std::io::stderr().lock(), "{line}");
+}
+
 fn run(cli: Cli) -> Result<(), Failure> {
     let inputs = read_inputs(&job::wanted(&cli.command));
     let job = Job::resolve(cli.command, inputs)?;
     for note in job.notes() {
-        eprintln!("raysheet: note: {note}");
+        tell(&format!("raysheet: note: {note}"));
     }
     match raysheet::app::run(job)? {
-        Outcome::Print(text) => print!("{text}"),
+        Outcome::Print(text) => say(&text)?,
         Outcome::Write(w) => {
             let written = write::write_all(&w.dir, &w.files, w.force).map_err(|e| match e {
                 write::WriteError::Refused(msg) => Failure::Input(msg),
                 write::WriteError::Io(msg) => Failure::Other(msg),
             })?;
             for warning in &w.warnings {
-                eprintln!("raysheet: warning: {warning}");
+                tell(&format!("raysheet: warning: {warning}"));
             }
-            print!("{}", w.report(&written));
+            say(&w.report(&written))?;
         }
     }
     Ok(())
@@ -60,11 +79,11 @@ fn main() -> ExitCode {
     match run(Cli::parse()) {
         Ok(()) => ExitCode::SUCCESS,
         Err(Failure::Input(msg)) => {
-            eprintln!("raysheet: error: {msg}");
+            tell(&format!("raysheet: error: {msg}"));
             ExitCode::from(2)
         }
         Err(Failure::Other(msg)) => {
-            eprintln!("raysheet: error: {msg}");
+            tell(&format!("raysheet: error: {msg}"));
             ExitCode::from(1)
         }
     }
