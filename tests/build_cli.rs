@@ -406,3 +406,52 @@ fn small_paper_refused_with_the_smallest_paper_that_works() {
     assert_code(&out, 0);
     assert!(pdf_pages(&out_dir.join("sheets.pdf")).len() >= 8);
 }
+
+/// Issue 12, finding 3: a symlinked `out/svg` was followed, so the SVGs landed
+/// outside the output folder. Refused with exit 2 before anything is written.
+#[cfg(unix)]
+#[test]
+fn symlinked_output_subfolder_written_outside() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let elsewhere = tmp.path().join("elsewhere");
+    std::fs::create_dir_all(&out_dir).unwrap();
+    std::fs::create_dir_all(&elsewhere).unwrap();
+    std::os::unix::fs::symlink(&elsewhere, out_dir.join("svg")).unwrap();
+    let out = raysheet(
+        &["build", &fixture_path("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap()],
+        tmp.path(),
+    );
+    assert_code(&out, 2);
+    let err = text(&out.stderr);
+    assert!(err.contains("svg: is a symbolic link") && err.contains("nothing was written"), "{err}");
+    assert!(files_under(&elsewhere).is_empty(), "{:?}", files_under(&elsewhere));
+    assert_eq!(files_under(&out_dir), Vec::<String>::new(), "only the link is there");
+}
+
+/// Issue 12, finding 3: an output file replaced by a link to another file (after
+/// an earlier build listed it as raysheet's) made the next build write into the
+/// link's target. Refused with exit 2; the other file keeps its bytes.
+#[cfg(unix)]
+#[test]
+fn symlinked_output_target_written_outside() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let o = out_dir.to_str().unwrap();
+    let kit = fixture_path("sheets_halfdisc.toml");
+    assert_code(&raysheet(&["build", &kit, "--out", o], tmp.path()), 0);
+    let victim = tmp.path().join("victim.json");
+    std::fs::write(&victim, "the teacher's own file").unwrap();
+    std::fs::remove_file(out_dir.join("answers.json")).unwrap();
+    std::os::unix::fs::symlink(&victim, out_dir.join("answers.json")).unwrap();
+    for force in [false, true] {
+        let args =
+            if force { vec!["build", &kit, "--out", o, "--force"] } else { vec!["build", &kit, "--out", o] };
+        let out = raysheet(&args, tmp.path());
+        assert_code(&out, 2);
+        assert!(text(&out.stderr).contains("answers.json: is a symbolic link"), "{}", text(&out.stderr));
+    }
+    assert_eq!(std::fs::read_to_string(&victim).unwrap(), "the teacher's own file");
+    // No temporary file is left behind.
+    assert!(!files_under(&out_dir).iter().any(|f| f.contains("part")), "{:?}", files_under(&out_dir));
+}
