@@ -503,6 +503,34 @@ fn ray_box_values_out_of_range() {
     }
 }
 
+/// Issue 12, finding 4: `index = 1e155` went through to `NaN` in the PDF with
+/// exit 0. An index above 4 is not a classroom material (diamond is 2.42):
+/// refused where it stands.
+#[test]
+fn index_1e155_nan_in_output() {
+    for bad in ["1e155", "4.01", "inf"] {
+        let text = edit(BASE, "index = 1.50", &format!("index = {bad}"));
+        let (line, col) = at(&text, bad);
+        let shown = check(
+            &error(&text),
+            Expect {
+                line,
+                col: Some(col),
+                field: "materials.pmma.index",
+                hint: &["at most 4", "diamond 2.42"],
+            },
+        );
+        assert!(shown.contains("not a usable index of refraction"), "{bad}: {shown}");
+    }
+    // 4 itself and diamond pass.
+    for ok in ["4", "2.42"] {
+        assert!(
+            Lesson::from_toml(&edit(BASE, "index = 1.50", &format!("index = {ok}")), "k.toml").is_ok(),
+            "{ok}"
+        );
+    }
+}
+
 // ------------------------------------------------------------ the piece's shape
 
 #[test]

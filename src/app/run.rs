@@ -7,8 +7,9 @@ use super::Failure;
 use super::job::{BuildJob, ClassSetup, Job};
 use crate::demo;
 use crate::layout::{TEMPLATE_FILES, shipped_template};
-use crate::output::{Output, answers, build_class_with, build_plans_with, report};
+use crate::output::{BuildError, Output, answers, build_class_with, build_plans_with, report};
 use crate::paper::PaperSpec;
+use crate::render::RenderError;
 use crate::sheets::{self, ClassPlan, Lesson, SheetPlan};
 
 /// What a job hands back to `main.rs`.
@@ -162,7 +163,11 @@ fn build(job: BuildJob) -> Result<Writing, Failure> {
             (build_class_with(&kit, &cp, &paper, formats, &templates), warnings)
         }
     };
-    let files = files.map_err(|e| Failure::Input(e.to_string()))?;
+    let files = files.map_err(|e| match e {
+        // A number no check caught is raysheet's fault, not the kit's: exit 1.
+        BuildError::Render(RenderError::NotFinite { .. }) => Failure::Other(e.to_string()),
+        _ => Failure::Input(e.to_string()),
+    })?;
     Ok(Writing { dir, files, force, warnings, what: Written::Build })
 }
 
