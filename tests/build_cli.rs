@@ -277,9 +277,18 @@ fn build_of_a_kit_without_sheets_is_refused_and_writes_nothing() {
 /// Runaway output is refused before any layout: a curved face of 1000 km
 /// radius crosses the axis about 2000 km away (R n/(n − 1), DESIGN.md), which
 /// would tile over millions of pages. Exit 2, the limit named, nothing written.
+/// Issue 12, finding 5 (one sheet, 1,850 pages, under the 2,000-page limit):
+/// one sheet may have at most 20 pages.
 #[test]
 fn a_setup_that_would_tile_over_millions_of_pages_is_refused() {
-    assert_build_refused("sheets_runaway.toml", "2000 pages");
+    assert_build_refused("sheets_runaway.toml", "more than the 20 pages raysheet prints for one sheet");
+}
+
+/// Issue 12, finding 5: one sheet of hundreds of pages (740 here), under the
+/// 2,000-page limit for a build, is refused by the limit for one sheet.
+#[test]
+fn one_sheet_1850_pages_under_the_build_limit() {
+    assert_build_refused("sheets_one_sheet_740_pages.toml", "sheet 1 would be tiled over 740 pages");
 }
 
 /// `build` of the fixture `kit` is refused before any output: exit 2, `word`

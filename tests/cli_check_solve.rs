@@ -444,3 +444,24 @@ fn broken_pipe_on_stdout_panics() {
     }
     assert!(dir.path().join("o/sheets.pdf").exists());
 }
+
+/// Issue 12, findings 5 and 7: `build` refused a kit with no sheets, or one
+/// sheet tiled over thousands of pages, while `check` said nothing. `check`
+/// now ends with the refusal as a warning (and still exits 0: it is a report).
+#[test]
+fn check_silent_about_what_build_refuses() {
+    let dir = folder_with(&["pieces_only.toml", "sheets_runaway.toml", "sheets_halfdisc.toml"]);
+    for (kit, why) in
+        [("pieces_only.toml", "no [[sheets]]"), ("sheets_runaway.toml", "more than the 20 pages")]
+    {
+        let out = raysheet(&["check", kit], dir.path());
+        assert_code(&out, 0);
+        let text = stdout(&out);
+        assert!(
+            text.contains("warning: `raysheet build` would refuse this kit:") && text.contains(why),
+            "{kit}: {text}"
+        );
+    }
+    let out = raysheet(&["check", "sheets_halfdisc.toml"], dir.path());
+    assert!(!stdout(&out).contains("would refuse"), "{}", stdout(&out));
+}

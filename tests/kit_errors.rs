@@ -531,6 +531,29 @@ fn index_1e155_nan_in_output() {
     }
 }
 
+/// Issue 12, finding 5: `[ray_box] rays = 1, spacing_mm = 1e6, ray_width_mm =
+/// 5e5` and a piece 400 mm tall made one sheet of 1,850 pages (53 s, 1.5 GB).
+/// A ray box's numbers and a piece's size are bounded, each where it stands.
+#[test]
+fn one_sheet_1850_pages_absurd_ray_box() {
+    for (table, field, hint) in [
+        ("rays = 1\nspacing_mm = 1e6", "ray_box.spacing_mm", "at most 40"),
+        ("spacing_mm = 40\nray_width_mm = 5e5", "ray_box.ray_width_mm", "at most 10"),
+    ] {
+        let text = format!("{BASE}\n[ray_box]\n{table}\n");
+        let key = table.rsplit('\n').next().unwrap();
+        let (line, col) = at(&text, key);
+        let eq = key.find('=').unwrap() + 2;
+        check(&error(&text), Expect { line, col: Some(col + eq), field, hint: &[hint, "above 0"] });
+    }
+    let text = edit(BASE, "thickness_mm = 12\nheight_mm = 50", "thickness_mm = 12\nheight_mm = 400");
+    let (line, col) = at(&text, "400");
+    check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "pieces[2].height_mm", hint: &["at most 300", "above 0"] },
+    );
+}
+
 // ------------------------------------------------------------ the piece's shape
 
 #[test]
