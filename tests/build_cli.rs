@@ -337,7 +337,8 @@ fn edited_templates_reach_the_sheets_and_bad_ones_are_located() {
     .unwrap();
     let bad = raysheet(&["build", &kit, "--out", o, "--templates", t], tmp.path());
     assert_code(&bad, 2);
-    assert!(text(&bad.stderr).contains("focal.toml: field `columns`"), "{}", text(&bad.stderr));
+    // File, line 3, column 11 (where the list opens) and field.
+    assert!(text(&bad.stderr).contains("focal.toml:3:11: field `columns`"), "{}", text(&bad.stderr));
     // A folder with none of the files is refused with the names it expects.
     let empty = tmp.path().join("empty");
     std::fs::create_dir(&empty).unwrap();
