@@ -465,3 +465,61 @@ fn symlinked_output_target_written_outside() {
     // No temporary file is left behind.
     assert!(!files_under(&out_dir).iter().any(|f| f.contains("part")), "{:?}", files_under(&out_dir));
 }
+
+/// Issue 12, finding 9: a roster name such as `=cmd|' /C calc'!A0` reached
+/// summary.csv as-is, where a spreadsheet runs it as a formula. Written with a
+/// leading `'`, quoted (OWASP, "CSV Injection"); the sheets keep the name as typed.
+#[test]
+fn csv_injection_roster_name_in_summary_csv() {
+    let tmp = tempfile::tempdir().unwrap();
+    let roster = tmp.path().join("r.csv");
+    std::fs::write(&roster, "name\n\"=cmd|' /C calc'!A0\"\nBench B\n").unwrap();
+    let out_dir = tmp.path().join("out");
+    let out = raysheet(
+        &[
+            "build",
+            &fixture_path("sheets_halfdisc.toml"),
+            "--out",
+            out_dir.to_str().unwrap(),
+            "--roster",
+            roster.to_str().unwrap(),
+            "--format",
+            "svg",
+        ],
+        tmp.path(),
+    );
+    assert_code(&out, 0);
+    let csv = std::fs::read_to_string(out_dir.join("summary.csv")).unwrap();
+    let rows: Vec<&str> = csv.lines().skip(1).collect();
+    assert!(rows.iter().any(|r| r.starts_with("\"'=cmd|' /C calc'!A0\",")), "{csv}");
+    assert!(!csv.lines().any(|l| l.starts_with('=')), "{csv}");
+}
+
+/// Issue 12, finding 9: a kit, roster or template that is a link to /dev/zero
+/// was read until memory ran out. Input files have a size limit, with a clear error.
+#[cfg(unix)]
+#[test]
+fn unbounded_input_reads_dev_zero() {
+    let tmp = tempfile::tempdir().unwrap();
+    let t = tmp.path();
+    std::os::unix::fs::symlink("/dev/zero", t.join("kit.toml")).unwrap();
+    let out = raysheet(&["check", "kit.toml"], t);
+    assert_code(&out, 2);
+    let err = text(&out.stderr);
+    assert!(err.contains("kit.toml: cannot read the kit file: the file is larger than 1024 KiB"), "{err}");
+    std::fs::write(t.join("r.csv"), "name\n".repeat(300_000)).unwrap();
+    let kit = fixture_path("sheets_halfdisc.toml");
+    let out = raysheet(&["build", &kit, "--out", "o", "--roster", "r.csv"], t);
+    assert_code(&out, 2);
+    assert!(text(&out.stderr).contains("larger than 1024 KiB"), "{}", text(&out.stderr));
+    std::fs::create_dir(t.join("tpl")).unwrap();
+    std::os::unix::fs::symlink("/dev/zero", t.join("tpl/focal.toml")).unwrap();
+    let out = raysheet(&["build", &kit, "--out", "o", "--templates", "tpl"], t);
+    assert_code(&out, 2);
+    assert!(
+        text(&out.stderr).contains("focal.toml: cannot read the template: the file is larger than 64 KiB"),
+        "{}",
+        text(&out.stderr)
+    );
+    assert!(!t.join("o").exists());
+}
