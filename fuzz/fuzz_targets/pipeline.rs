@@ -1,7 +1,8 @@
 //! The whole pipeline on any kit the parser accepts: plan → layout → render
 //! into PDF and SVG. A build either refuses with an error or gives files in
-//! which every PDF has a page, no number is NaN or infinite, and the answer
-//! file is JSON. Seed the corpus with the demo kit and `tests/fixtures/*.toml`.
+//! which every PDF has a page, no SVG holds NaN, and the answer file is JSON.
+//! (PDF streams are compressed, so a byte search for NaN there finds font
+//! data; the renderers' own finiteness check stands for the PDF.) Seed the corpus with the demo kit and `tests/fixtures/*.toml`.
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
@@ -19,7 +20,6 @@ fuzz_target!(|data: &[u8]| {
         if f.path.ends_with(".pdf") {
             assert!(f.bytes.starts_with(b"%PDF-"), "{}", f.path);
             assert!(!contains(&f.bytes, b"/Count 0"), "{}: a PDF without pages", f.path);
-            assert!(!contains(&f.bytes, b"NaN"), "{}: NaN in the PDF", f.path);
         } else if f.path.ends_with(".svg") {
             assert!(!contains(&f.bytes, b"NaN"), "{}: NaN in the SVG", f.path);
         } else if f.path.ends_with(".json") {
