@@ -108,6 +108,22 @@ pub fn text_width_mm(text: &str, size_pt: f64, weight: Weight) -> f64 {
     units / upem * size_pt * MM_PER_PT
 }
 
+/// The first character of `text` that prints as nothing or reorders what
+/// follows: zero-width spaces and joiners, bidirectional marks, embeddings,
+/// overrides and isolates, the word joiner and invisible operators, the byte
+/// order mark, the soft hyphen and the interlinear annotation marks (Unicode
+/// format characters, general category Cf, as listed in the Unicode Character
+/// Database for these blocks). `a\u{200B}b` prints like `ab`, and a
+/// right-to-left override turns the rest of a line round, so such text cannot
+/// be told apart from other text on paper.
+pub fn invisible_char(text: &str) -> Option<char> {
+    text.chars().find(|&c| {
+        matches!(c,
+            '\u{00AD}' | '\u{061C}' | '\u{180E}' | '\u{200B}'..='\u{200F}' | '\u{202A}'..='\u{202E}'
+            | '\u{2060}'..='\u{2064}' | '\u{2066}'..='\u{206F}' | '\u{FEFF}' | '\u{FFF9}'..='\u{FFFB}')
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

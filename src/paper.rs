@@ -89,14 +89,70 @@ impl Default for PaperSpec {
 /// Smallest printable area we accept on each side after margins, mm.
 pub const MIN_PRINTABLE_MM: f64 = 100.0;
 
+/// The bands every sheet page keeps outside the setup drawing, mm. The layout
+/// draws them; the paper check uses them to tell whether a drawing fits at all,
+/// so they live here, below both.
+pub mod bands {
+    /// The header (heading, subtitle, identity box) at the top.
+    pub const HEADER_MM: f64 = 15.0;
+    /// The safety caution at the bottom.
+    pub const CAUTION_MM: f64 = 8.0;
+    /// Instructions and the measurement table.
+    pub const TEXT_BLOCK_MM: f64 = 58.0;
+    /// Scale checks and the plot or tile map (stacked under the text block on narrow pages).
+    pub const SIDE_BLOCK_MM: f64 = 56.0;
+    /// Space between the text block and the drawing.
+    pub const GAP_MM: f64 = 3.0;
+    /// Printable width from which the text and side blocks sit side by side.
+    pub const SIDE_BY_SIDE_FROM_MM: f64 = 250.0;
+    /// Smallest drawing window, mm on each side: well above the 12 mm tile
+    /// overlap, so a tiled setup advances at least 28 mm a page.
+    pub const MIN_DRAWING_MM: f64 = 40.0;
+}
+
 impl PaperSpec {
     /// Width and height of the page for a drawing whose long direction is
-    /// horizontal (the optical axis): landscape for `Auto`.
+    /// horizontal (the optical axis): landscape for `Auto`, unless a landscape
+    /// page leaves no room for the drawing (small paper such as A5) and a
+    /// portrait one does.
     pub fn page_mm(&self) -> (f64, f64) {
+        let portrait = (self.size.width_mm, self.size.height_mm);
+        let landscape = (self.size.height_mm, self.size.width_mm);
         match self.orientation {
-            Orientation::Portrait => (self.size.width_mm, self.size.height_mm),
-            Orientation::Landscape | Orientation::Auto => (self.size.height_mm, self.size.width_mm),
+            Orientation::Portrait => portrait,
+            Orientation::Landscape => landscape,
+            Orientation::Auto if !self.fits(landscape) && self.fits(portrait) => portrait,
+            Orientation::Auto => landscape,
         }
+    }
+
+    /// The setup drawing's window on a page of `page` (width, height) mm with
+    /// this margin: the printable width, and the height left under the header
+    /// and above the text, side and caution bands.
+    pub fn drawing_window_mm(&self, page: (f64, f64)) -> (f64, f64) {
+        use bands::*;
+        let m = self.margin_mm;
+        let width = page.0 - 2.0 * m;
+        let below = if width >= SIDE_BY_SIDE_FROM_MM {
+            CAUTION_MM + TEXT_BLOCK_MM
+        } else {
+            CAUTION_MM + SIDE_BLOCK_MM + TEXT_BLOCK_MM
+        };
+        (width, page.1 - 2.0 * m - below - GAP_MM - HEADER_MM)
+    }
+
+    fn fits(&self, page: (f64, f64)) -> bool {
+        let (w, h) = self.drawing_window_mm(page);
+        w >= bands::MIN_DRAWING_MM && h >= bands::MIN_DRAWING_MM
+    }
+
+    /// The smallest portrait paper that holds a sheet with this margin, mm:
+    /// [`MIN_PRINTABLE_MM`] across, and the bands plus the smallest drawing down.
+    pub fn smallest_paper_mm(&self) -> (f64, f64) {
+        use bands::*;
+        let m = self.margin_mm;
+        let below = CAUTION_MM + SIDE_BLOCK_MM + TEXT_BLOCK_MM + GAP_MM + HEADER_MM;
+        (MIN_PRINTABLE_MM + 2.0 * m, below + MIN_DRAWING_MM + 2.0 * m)
     }
 
     /// Checks that the margin leaves a usable printable area. The error says why.
@@ -115,6 +171,31 @@ impl PaperSpec {
                 self.size.width_mm,
                 self.size.height_mm,
                 ((self.size.width_mm - MIN_PRINTABLE_MM) / 2.0).max(0.0)
+            ));
+        }
+        let portrait = (self.size.width_mm, self.size.height_mm);
+        let landscape = (self.size.height_mm, self.size.width_mm);
+        let fits = match self.orientation {
+            Orientation::Portrait => self.fits(portrait),
+            Orientation::Landscape => self.fits(landscape),
+            Orientation::Auto => self.fits(portrait) || self.fits(landscape),
+        };
+        if !fits {
+            let (dw, dh) = self.drawing_window_mm(self.page_mm());
+            let (min_w, min_h) = self.smallest_paper_mm();
+            let turn = if self.orientation == Orientation::Landscape && self.fits(portrait) {
+                "turn it to portrait (orientation portrait or auto), or "
+            } else {
+                ""
+            };
+            return Err(format!(
+                "{} paper ({} × {} mm) with a {m} mm margin leaves a drawing area of {:.0} × {:.0} mm under the header, text, scale checks and caution; a sheet needs at least {min} × {min} mm: {turn}use paper at least {min_w:.0} × {min_h:.0} mm in portrait (A5, 148 × 210 mm, works with a margin up to 15 mm), or a smaller margin",
+                self.size.name,
+                self.size.width_mm,
+                self.size.height_mm,
+                dw.max(0.0),
+                dh.max(0.0),
+                min = bands::MIN_DRAWING_MM,
             ));
         }
         Ok(())

@@ -277,9 +277,18 @@ fn build_of_a_kit_without_sheets_is_refused_and_writes_nothing() {
 /// Runaway output is refused before any layout: a curved face of 1000 km
 /// radius crosses the axis about 2000 km away (R n/(n − 1), DESIGN.md), which
 /// would tile over millions of pages. Exit 2, the limit named, nothing written.
+/// Issue 12, finding 5 (one sheet, 1,850 pages, under the 2,000-page limit):
+/// one sheet may have at most 20 pages.
 #[test]
 fn a_setup_that_would_tile_over_millions_of_pages_is_refused() {
-    assert_build_refused("sheets_runaway.toml", "2000 pages");
+    assert_build_refused("sheets_runaway.toml", "more than the 20 pages raysheet prints for one sheet");
+}
+
+/// Issue 12, finding 5: one sheet of hundreds of pages (740 here), under the
+/// 2,000-page limit for a build, is refused by the limit for one sheet.
+#[test]
+fn one_sheet_1850_pages_under_the_build_limit() {
+    assert_build_refused("sheets_one_sheet_740_pages.toml", "sheet 1 would be tiled over 740 pages");
 }
 
 /// `build` of the fixture `kit` is refused before any output: exit 2, `word`
@@ -328,11 +337,189 @@ fn edited_templates_reach_the_sheets_and_bad_ones_are_located() {
     .unwrap();
     let bad = raysheet(&["build", &kit, "--out", o, "--templates", t], tmp.path());
     assert_code(&bad, 2);
-    assert!(text(&bad.stderr).contains("focal.toml: field `columns`"), "{}", text(&bad.stderr));
+    // File, line 3, column 11 (where the list opens) and field.
+    assert!(text(&bad.stderr).contains("focal.toml:3:11: field `columns`"), "{}", text(&bad.stderr));
     // A folder with none of the files is refused with the names it expects.
     let empty = tmp.path().join("empty");
     std::fs::create_dir(&empty).unwrap();
     let none = raysheet(&["build", &kit, "--out", o, "--templates", empty.to_str().unwrap()], tmp.path());
     assert_code(&none, 2);
     assert!(text(&none.stderr).contains("curved-face.toml"), "{}", text(&none.stderr));
+}
+
+/// The demo kit's text, written into `dir` as `k.toml`.
+fn demo_kit_in(dir: &Path) -> String {
+    let out = raysheet(&["demo", "--print-kit"], dir);
+    assert_code(&out, 0);
+    let path = dir.join("k.toml");
+    std::fs::write(&path, &out.stdout).unwrap();
+    path.to_string_lossy().into_owned()
+}
+
+fn pdf_pages(path: &Path) -> Vec<[f32; 4]> {
+    let doc = lopdf::Document::load(path).expect("lopdf reads the PDF");
+    doc.get_pages()
+        .into_values()
+        .map(|id| {
+            let page = doc.get_dictionary(id).unwrap();
+            let b = page.get(b"MediaBox").unwrap().as_array().unwrap();
+            let n: Vec<f32> = b.iter().map(|o| o.as_float().unwrap()).collect();
+            [n[0], n[1], n[2], n[3]]
+        })
+        .collect()
+}
+
+/// Issue 12, finding 1: `--paper 148x210` (A5) wrote PDFs with no pages and
+/// exited 0. Now every sheet is printed, tiled on portrait A5 pages.
+#[test]
+fn small_paper_a5_exit_0_with_empty_pdfs() {
+    let tmp = tempfile::tempdir().unwrap();
+    let kit = demo_kit_in(tmp.path());
+    let out_dir = tmp.path().join("a5");
+    let out =
+        raysheet(&["build", &kit, "--out", out_dir.to_str().unwrap(), "--paper", "148x210"], tmp.path());
+    assert_code(&out, 0);
+    let sheets = pdf_pages(&out_dir.join("sheets.pdf"));
+    let keys = pdf_pages(&out_dir.join("keys.pdf"));
+    // The demo kit has 8 sheets; each needs at least one page.
+    assert!(sheets.len() >= 8, "{} pages", sheets.len());
+    assert_eq!(sheets.len(), keys.len());
+    // ISO 216 A5 is 148 × 210 mm = 419.53 × 595.28 pt, here in portrait.
+    for b in sheets.iter().chain(&keys) {
+        assert!((b[2] - 419.53).abs() < 0.01 && (b[3] - 595.28).abs() < 0.01, "{b:?}");
+    }
+    let svgs = outputs(&out_dir).into_iter().filter(|f| f.starts_with("svg/")).count();
+    assert_eq!(svgs, sheets.len() + keys.len());
+}
+
+/// Issue 12, finding 1: paper whose drawing window would be 12 mm or less
+/// (a 172 mm short side in landscape was "tiled over 1000000000 pages") is
+/// refused with exit 2 and the smallest paper that works; `auto` turns it to
+/// portrait and prints.
+#[test]
+fn small_paper_refused_with_the_smallest_paper_that_works() {
+    let tmp = tempfile::tempdir().unwrap();
+    let kit = demo_kit_in(tmp.path());
+    let out_dir = tmp.path().join("o");
+    let o = out_dir.to_str().unwrap();
+    for args in [
+        ["--paper", "172x250", "--orientation", "landscape"],
+        ["--paper", "120x199", "--orientation", "auto"],
+    ] {
+        let out = raysheet(&[&["build", &kit, "--out", o][..], &args[..]].concat(), tmp.path());
+        assert_code(&out, 2);
+        let err = text(&out.stderr);
+        assert!(err.contains("at least 120 × 200 mm in portrait") && err.contains("A5"), "{err}");
+        assert!(!out_dir.exists(), "nothing written for {args:?}");
+    }
+    let out = raysheet(&["build", &kit, "--out", o, "--paper", "172x250"], tmp.path());
+    assert_code(&out, 0);
+    assert!(pdf_pages(&out_dir.join("sheets.pdf")).len() >= 8);
+}
+
+/// Issue 12, finding 3: a symlinked `out/svg` was followed, so the SVGs landed
+/// outside the output folder. Refused with exit 2 before anything is written.
+#[cfg(unix)]
+#[test]
+fn symlinked_output_subfolder_written_outside() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let elsewhere = tmp.path().join("elsewhere");
+    std::fs::create_dir_all(&out_dir).unwrap();
+    std::fs::create_dir_all(&elsewhere).unwrap();
+    std::os::unix::fs::symlink(&elsewhere, out_dir.join("svg")).unwrap();
+    let out = raysheet(
+        &["build", &fixture_path("sheets_halfdisc.toml"), "--out", out_dir.to_str().unwrap()],
+        tmp.path(),
+    );
+    assert_code(&out, 2);
+    let err = text(&out.stderr);
+    assert!(err.contains("svg: is a symbolic link") && err.contains("nothing was written"), "{err}");
+    assert!(files_under(&elsewhere).is_empty(), "{:?}", files_under(&elsewhere));
+    assert_eq!(files_under(&out_dir), Vec::<String>::new(), "only the link is there");
+}
+
+/// Issue 12, finding 3: an output file replaced by a link to another file (after
+/// an earlier build listed it as raysheet's) made the next build write into the
+/// link's target. Refused with exit 2; the other file keeps its bytes.
+#[cfg(unix)]
+#[test]
+fn symlinked_output_target_written_outside() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out_dir = tmp.path().join("out");
+    let o = out_dir.to_str().unwrap();
+    let kit = fixture_path("sheets_halfdisc.toml");
+    assert_code(&raysheet(&["build", &kit, "--out", o], tmp.path()), 0);
+    let victim = tmp.path().join("victim.json");
+    std::fs::write(&victim, "the teacher's own file").unwrap();
+    std::fs::remove_file(out_dir.join("answers.json")).unwrap();
+    std::os::unix::fs::symlink(&victim, out_dir.join("answers.json")).unwrap();
+    for force in [false, true] {
+        let args =
+            if force { vec!["build", &kit, "--out", o, "--force"] } else { vec!["build", &kit, "--out", o] };
+        let out = raysheet(&args, tmp.path());
+        assert_code(&out, 2);
+        assert!(text(&out.stderr).contains("answers.json: is a symbolic link"), "{}", text(&out.stderr));
+    }
+    assert_eq!(std::fs::read_to_string(&victim).unwrap(), "the teacher's own file");
+    // No temporary file is left behind.
+    assert!(!files_under(&out_dir).iter().any(|f| f.contains("part")), "{:?}", files_under(&out_dir));
+}
+
+/// Issue 12, finding 9: a roster name such as `=cmd|' /C calc'!A0` reached
+/// summary.csv as-is, where a spreadsheet runs it as a formula. Written with a
+/// leading `'`, quoted (OWASP, "CSV Injection"); the sheets keep the name as typed.
+#[test]
+fn csv_injection_roster_name_in_summary_csv() {
+    let tmp = tempfile::tempdir().unwrap();
+    let roster = tmp.path().join("r.csv");
+    std::fs::write(&roster, "name\n\"=cmd|' /C calc'!A0\"\nBench B\n").unwrap();
+    let out_dir = tmp.path().join("out");
+    let out = raysheet(
+        &[
+            "build",
+            &fixture_path("sheets_halfdisc.toml"),
+            "--out",
+            out_dir.to_str().unwrap(),
+            "--roster",
+            roster.to_str().unwrap(),
+            "--format",
+            "svg",
+        ],
+        tmp.path(),
+    );
+    assert_code(&out, 0);
+    let csv = std::fs::read_to_string(out_dir.join("summary.csv")).unwrap();
+    let rows: Vec<&str> = csv.lines().skip(1).collect();
+    assert!(rows.iter().any(|r| r.starts_with("\"'=cmd|' /C calc'!A0\",")), "{csv}");
+    assert!(!csv.lines().any(|l| l.starts_with('=')), "{csv}");
+}
+
+/// Issue 12, finding 9: a kit, roster or template that is a link to /dev/zero
+/// was read until memory ran out. Input files have a size limit, with a clear error.
+#[cfg(unix)]
+#[test]
+fn unbounded_input_reads_dev_zero() {
+    let tmp = tempfile::tempdir().unwrap();
+    let t = tmp.path();
+    std::os::unix::fs::symlink("/dev/zero", t.join("kit.toml")).unwrap();
+    let out = raysheet(&["check", "kit.toml"], t);
+    assert_code(&out, 2);
+    let err = text(&out.stderr);
+    assert!(err.contains("kit.toml: cannot read the kit file: the file is larger than 1024 KiB"), "{err}");
+    std::fs::write(t.join("r.csv"), "name\n".repeat(300_000)).unwrap();
+    let kit = fixture_path("sheets_halfdisc.toml");
+    let out = raysheet(&["build", &kit, "--out", "o", "--roster", "r.csv"], t);
+    assert_code(&out, 2);
+    assert!(text(&out.stderr).contains("larger than 1024 KiB"), "{}", text(&out.stderr));
+    std::fs::create_dir(t.join("tpl")).unwrap();
+    std::os::unix::fs::symlink("/dev/zero", t.join("tpl/focal.toml")).unwrap();
+    let out = raysheet(&["build", &kit, "--out", "o", "--templates", "tpl"], t);
+    assert_code(&out, 2);
+    assert!(
+        text(&out.stderr).contains("focal.toml: cannot read the template: the file is larger than 64 KiB"),
+        "{}",
+        text(&out.stderr)
+    );
+    assert!(!t.join("o").exists());
 }

@@ -342,6 +342,28 @@ fn assert_safe_folder(f: &str, from: &str) {
     assert!(!["con", "prn", "aux", "nul"].contains(&stem), "{from:?} → {f:?}: reserved");
 }
 
+/// Issue 12, finding 9: right-to-left overrides and zero-width characters were
+/// accepted in group names (`a\u{200b}b` prints like `ab`). Refused at the
+/// roster's line, naming the character.
+#[test]
+fn rtl_override_and_zero_width_in_group_names() {
+    for (name, code) in [
+        ("a\u{200B}b", "U+200B"),
+        ("Bench\u{202E}A", "U+202E"),
+        ("\u{2067}Bench", "U+2067"),
+        ("Ben\u{00AD}ch", "U+00AD"),
+        ("\u{FEFF}Bench", "U+FEFF"),
+        ("a\u{200D}b", "U+200D"),
+    ] {
+        let text = format!("name\nBench A\n{name}\n");
+        let e = parse_roster(&text, "roster.csv").expect_err(code).to_string();
+        assert!(e.starts_with("roster.csv:3: field `name`: "), "{e}");
+        assert!(e.contains(code) && e.contains("invisible"), "{e}");
+    }
+    // Accented, Greek and Cyrillic names still pass.
+    assert!(parse_roster("name\nØdegård\nΑθηνά\nМосква\n", "roster.csv").is_ok());
+}
+
 #[test]
 fn hostile_roster_names_give_safe_folders_or_located_errors() {
     // Accepted names: each becomes a safe, distinct folder and is kept exactly.

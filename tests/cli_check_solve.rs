@@ -394,3 +394,74 @@ fn demo_print_kit_is_a_kit_that_check_accepts() {
     let a: Value = serde_json::from_str(&stdout(&o)).expect("JSON");
     assert!(!a["sheets"].as_array().unwrap().is_empty());
 }
+
+/// Issue 12, finding 2: a curved-face sheet whose safe band holds no 0.5 mm
+/// grid height panicked (exit 101) in `check`, `solve` and `build`.
+#[test]
+fn default_heights_clamp_panic_band_narrower_than_grid() {
+    let dir = folder_with(&["band_narrower_than_grid.toml"]);
+    for args in [
+        &["check", "band_narrower_than_grid.toml"][..],
+        &["solve", "band_narrower_than_grid.toml", "--json"],
+        &["build", "band_narrower_than_grid.toml", "--out", "o"],
+    ] {
+        let out = raysheet(args, dir.path());
+        assert_code(&out, 0);
+        assert!(!stderr(&out).contains("panicked"), "{args:?}: {}", stderr(&out));
+    }
+    let out = raysheet(&["solve", "band_narrower_than_grid.toml", "--json"], dir.path());
+    let v: Value = serde_json::from_str(&stdout(&out)).unwrap();
+    let band = &v["sheets"][0]["safe_band_mm"];
+    for ray in v["sheets"][0]["rays"].as_array().unwrap() {
+        let h = ray["height_mm"].as_f64().unwrap().abs();
+        let (min, max) = (band["min"].as_f64().unwrap(), band["max"].as_f64().unwrap());
+        assert!(h >= min - 1e-9 && h <= max + 1e-9, "{ray} in {band}");
+    }
+}
+
+/// Issue 12, finding 2: `raysheet build KIT --out DIR | head -1` panicked with
+/// "failed printing to stdout: Broken pipe" (exit 101) once the reader had gone.
+/// A closed standard output is not a crash: the files are written, exit 0.
+#[test]
+fn broken_pipe_on_stdout_panics() {
+    use std::process::{Command, Stdio};
+    let dir = folder_with(&["sheets_halfdisc.toml"]);
+    for args in
+        [&["build", "sheets_halfdisc.toml", "--out", "o"][..], &["solve", "sheets_halfdisc.toml", "--json"]]
+    {
+        let mut child = Command::new(env!("CARGO_BIN_EXE_raysheet"))
+            .args(args)
+            .current_dir(dir.path())
+            .stdout(Stdio::piped())
+            .stderr(Stdio::piped())
+            .spawn()
+            .unwrap();
+        // Close the reading end before the binary has finished its work.
+        drop(child.stdout.take());
+        let out = child.wait_with_output().unwrap();
+        assert_code(&out, 0);
+        assert!(!stderr(&out).contains("panicked"), "{args:?}: {}", stderr(&out));
+    }
+    assert!(dir.path().join("o/sheets.pdf").exists());
+}
+
+/// Issue 12, findings 5 and 7: `build` refused a kit with no sheets, or one
+/// sheet tiled over thousands of pages, while `check` said nothing. `check`
+/// now ends with the refusal as a warning (and still exits 0: it is a report).
+#[test]
+fn check_silent_about_what_build_refuses() {
+    let dir = folder_with(&["pieces_only.toml", "sheets_runaway.toml", "sheets_halfdisc.toml"]);
+    for (kit, why) in
+        [("pieces_only.toml", "no [[sheets]]"), ("sheets_runaway.toml", "more than the 20 pages")]
+    {
+        let out = raysheet(&["check", kit], dir.path());
+        assert_code(&out, 0);
+        let text = stdout(&out);
+        assert!(
+            text.contains("warning: `raysheet build` would refuse this kit:") && text.contains(why),
+            "{kit}: {text}"
+        );
+    }
+    let out = raysheet(&["check", "sheets_halfdisc.toml"], dir.path());
+    assert!(!stdout(&out).contains("would refuse"), "{}", stdout(&out));
+}

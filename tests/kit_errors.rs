@@ -503,6 +503,57 @@ fn ray_box_values_out_of_range() {
     }
 }
 
+/// Issue 12, finding 4: `index = 1e155` went through to `NaN` in the PDF with
+/// exit 0. An index above 4 is not a classroom material (diamond is 2.42):
+/// refused where it stands.
+#[test]
+fn index_1e155_nan_in_output() {
+    for bad in ["1e155", "4.01", "inf"] {
+        let text = edit(BASE, "index = 1.50", &format!("index = {bad}"));
+        let (line, col) = at(&text, bad);
+        let shown = check(
+            &error(&text),
+            Expect {
+                line,
+                col: Some(col),
+                field: "materials.pmma.index",
+                hint: &["at most 4", "diamond 2.42"],
+            },
+        );
+        assert!(shown.contains("not a usable index of refraction"), "{bad}: {shown}");
+    }
+    // 4 itself and diamond pass.
+    for ok in ["4", "2.42"] {
+        assert!(
+            Lesson::from_toml(&edit(BASE, "index = 1.50", &format!("index = {ok}")), "k.toml").is_ok(),
+            "{ok}"
+        );
+    }
+}
+
+/// Issue 12, finding 5: `[ray_box] rays = 1, spacing_mm = 1e6, ray_width_mm =
+/// 5e5` and a piece 400 mm tall made one sheet of 1,850 pages (53 s, 1.5 GB).
+/// A ray box's numbers and a piece's size are bounded, each where it stands.
+#[test]
+fn one_sheet_1850_pages_absurd_ray_box() {
+    for (table, field, hint) in [
+        ("rays = 1\nspacing_mm = 1e6", "ray_box.spacing_mm", "at most 40"),
+        ("spacing_mm = 40\nray_width_mm = 5e5", "ray_box.ray_width_mm", "at most 10"),
+    ] {
+        let text = format!("{BASE}\n[ray_box]\n{table}\n");
+        let key = table.rsplit('\n').next().unwrap();
+        let (line, col) = at(&text, key);
+        let eq = key.find('=').unwrap() + 2;
+        check(&error(&text), Expect { line, col: Some(col + eq), field, hint: &[hint, "above 0"] });
+    }
+    let text = edit(BASE, "thickness_mm = 12\nheight_mm = 50", "thickness_mm = 12\nheight_mm = 400");
+    let (line, col) = at(&text, "400");
+    check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "pieces[2].height_mm", hint: &["at most 300", "above 0"] },
+    );
+}
+
 // ------------------------------------------------------------ the piece's shape
 
 #[test]
@@ -686,6 +737,19 @@ fn custom_paper_too_small_or_half_given() {
             hint: &["\"portrait\", \"landscape\" or \"auto\""],
         },
     );
+}
+
+/// Issue 12, finding 1: paper too short for the sheet's bands and a drawing
+/// (150 × 190 mm leaves 30 mm for the drawing in portrait) is refused at the
+/// `[paper]` table, with the smallest paper that works.
+#[test]
+fn small_paper_exit_0_with_empty_pdfs_refused_in_the_kit() {
+    let text = format!("{BASE}\n[paper]\nwidth_mm = 150\nheight_mm = 190\n");
+    let (line, _) = at(&text, "[paper]");
+    check(&error(&text), Expect { line, col: None, field: "paper", hint: &["at least 120 × 200 mm", "A5"] });
+    // A5 itself is accepted.
+    let text = format!("{BASE}\n[paper]\nwidth_mm = 148\nheight_mm = 210\n");
+    assert!(Lesson::from_toml(&text, "kit.toml").is_ok());
 }
 
 // ---------------------------------------------------------------- sheet words

@@ -394,3 +394,32 @@ fn full_circle_marker_and_angles_are_fine_for_any_sweep() {
     );
     assert!(err < 0.01, "{err}");
 }
+
+/// Issue 12, finding 4: `index = 1e155` wrote `NaN NaN l` into keys.pdf with
+/// exit 0. A number that is not finite (or beyond ±1e9 mm, which would turn
+/// into an infinite single-precision real) is refused before anything is written.
+#[test]
+fn nan_in_output_pdf_refused() {
+    for (bad, shown) in [(f64::NAN, "NaN"), (f64::INFINITY, "inf"), (1e300, "1000000000000")] {
+        let mut scene = test_scene();
+        let line = Item::Line {
+            from: Point::new(10.0, 10.0),
+            to: Point::new(bad, 20.0),
+            stroke: Stroke::solid(0.3),
+        };
+        // Inside a group too: the check walks into tiles.
+        let group = Item::Group {
+            clip: raysheet::scene::Rect { min: Point::new(0.0, 0.0), max: Point::new(100.0, 100.0) },
+            offset: Vec2::new(0.0, 0.0),
+            items: vec![line],
+        };
+        scene.pages[1].items.push(group);
+        match render_pdf(&scene) {
+            Err(e @ RenderError::NotFinite { .. }) => {
+                let msg = e.to_string();
+                assert!(msg.contains("line end") && msg.contains(shown), "{msg}");
+            }
+            other => panic!("expected NotFinite for {bad}, got {other:?}"),
+        }
+    }
+}

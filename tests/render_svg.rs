@@ -167,3 +167,29 @@ fn text_the_font_lacks_is_refused() {
         Err(RenderError::UnsupportedChar { ch: '漢', text: "漢字".into() })
     );
 }
+
+/// Issue 12, finding 4: `index = 1e155` wrote `LNaN,NaN` into SVG paths with
+/// exit 0. A page holding a number that is not finite is refused.
+#[test]
+fn nan_in_output_svg_refused() {
+    use raysheet::scene::Item;
+    for bad in [f64::NAN, f64::NEG_INFINITY] {
+        let mut page = a4_page();
+        page.items.push(text(Point::new(bad, 20.0), "A", 10.0, Weight::Regular, Anchor::Start, 0.0));
+        assert!(matches!(
+            render_svg_page(&page, "t"),
+            Err(RenderError::NotFinite { what: "text position", .. })
+        ));
+        let mut page = a4_page();
+        page.items.push(Item::Marker {
+            at: Point::new(5.0, 5.0),
+            shape: raysheet::scene::MarkerShape::Dot,
+            size_mm: bad,
+            stroke: raysheet::scene::Stroke::solid(0.2),
+        });
+        assert!(matches!(
+            render_svg_page(&page, "t"),
+            Err(RenderError::NotFinite { what: "marker size", .. })
+        ));
+    }
+}

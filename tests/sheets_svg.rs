@@ -77,8 +77,21 @@ fn a4_sheets_are_297_by_210_mm_landscape_and_210_by_297_mm_portrait() {
             );
         }
     }
-    // The landscape numbers in px, by hand: 297 × 96/25.4 = 1122.5, 210 × 96/25.4 = 793.7.
-    assert!((297.0 * PX_PER_MM_CSS - 1122.5).abs() < 0.05 && (210.0 * PX_PER_MM_CSS - 793.7).abs() < 0.05);
+}
+
+/// Issue 12 ("honest tests"): this check used to assert on arithmetic of
+/// literals (297 × 96/25.4 against 1122.5), which cannot fail. Now usvg's own
+/// size for the built landscape A4 sheet is compared with the values worked
+/// out by hand: 297 mm × 96/25.4 = 1122.52 px and 210 mm × 96/25.4 = 793.70 px
+/// (CSS: 1 in = 96 px = 25.4 mm; ISO 216: A4 is 210 × 297 mm).
+#[test]
+fn landscape_a4_sheet_is_1122_5_by_793_7_css_px() {
+    let out = build(&fixture("sheets_halfdisc.toml"), &paper("A4", Orientation::Landscape), SVG_ONLY);
+    let tree =
+        usvg::Tree::from_str(svg(&out, "svg/sheet-01.svg"), &options()).expect("usvg parses the sheet");
+    let size = tree.size();
+    assert!((f64::from(size.width()) - 1122.52).abs() < 0.01, "{} px", size.width());
+    assert!((f64::from(size.height()) - 793.70).abs() < 0.01, "{} px", size.height());
 }
 
 /// A page rendered on white at [`PX_PER_MM`].

@@ -7,8 +7,9 @@ use super::Failure;
 use super::job::{BuildJob, ClassSetup, Job};
 use crate::demo;
 use crate::layout::{TEMPLATE_FILES, shipped_template};
-use crate::output::{Output, answers, build_class_with, build_plans_with, report};
+use crate::output::{BuildError, Output, answers, build_class_with, build_plans_with, preflight, report};
 use crate::paper::PaperSpec;
+use crate::render::RenderError;
 use crate::sheets::{self, ClassPlan, Lesson, SheetPlan};
 
 /// What a job hands back to `main.rs`.
@@ -98,10 +99,19 @@ fn class_plan(kit: &Lesson, paper: &PaperSpec, class: ClassSetup) -> ClassPlan {
 }
 
 /// The `check` report, and the class set's notes when the kit has one.
+/// Ends with a warning for whatever `build` would refuse on the same kit and paper.
 fn check(kit: &Lesson, paper: &PaperSpec, class: Option<ClassSetup>) -> String {
     let plans = sheets::plan_lesson(kit, paper);
     let mut s = report::check_report(kit, &plans);
-    if let Some(cp) = class.map(|c| class_plan(kit, paper, c)) {
+    let class = class.map(|c| class_plan(kit, paper, c));
+    let refused = match &class {
+        None => preflight(kit, plans.iter(), paper),
+        Some(cp) => preflight(kit, cp.plans.iter().flatten(), paper),
+    };
+    if let Err(e) = refused {
+        s.push_str(&format!("\nwarning: `raysheet build` would refuse this kit: {e}\n"));
+    }
+    if let Some(cp) = class {
         s.push_str(&format!("\nClass set: {} groups, seed {}\n", cp.groups.len(), cp.seed));
         for n in &cp.notes {
             s.push_str(&format!("  note: {n}\n"));
@@ -162,7 +172,11 @@ fn build(job: BuildJob) -> Result<Writing, Failure> {
             (build_class_with(&kit, &cp, &paper, formats, &templates), warnings)
         }
     };
-    let files = files.map_err(|e| Failure::Input(e.to_string()))?;
+    let files = files.map_err(|e| match e {
+        // A number no check caught is raysheet's fault, not the kit's: exit 1.
+        BuildError::Render(RenderError::NotFinite { .. }) => Failure::Other(e.to_string()),
+        _ => Failure::Input(e.to_string()),
+    })?;
     Ok(Writing { dir, files, force, warnings, what: Written::Build })
 }
 

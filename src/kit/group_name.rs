@@ -12,6 +12,12 @@ pub fn group_name_problem(name: &str) -> Option<String> {
     if name.chars().any(char::is_control) {
         return Some(format!("group name {name:?} contains a control character (a newline or tab, say)"));
     }
+    if let Some(c) = crate::font::invisible_char(name) {
+        return Some(format!(
+            "group name {name:?} contains an invisible character (U+{:04X}: a zero-width space or joiner, or a right-to-left or other direction mark) that would make it print like another name; type the name again without it",
+            c as u32
+        ));
+    }
     let n = name.chars().count();
     if n > MAX_NAME_CHARS {
         return Some(format!("group name is {n} characters long; at most {MAX_NAME_CHARS} fit on a sheet"));

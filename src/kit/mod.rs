@@ -89,6 +89,25 @@ impl Default for ClassSpec {
 /// Largest number of groups in a class set (a sane bound on output size).
 pub const MAX_GROUPS: usize = 60;
 
+/// Largest index of refraction a kit may give: classroom materials lie
+/// between acrylic (1.49) and diamond (2.42); above 4 nothing is transparent
+/// to a ray box's light (our bound, common practice, no source).
+pub const MAX_INDEX: f64 = 4.0;
+
+/// Largest ray spacing, mm: ray boxes space their slits some 5–15 mm apart
+/// (DESIGN.md, *memory*); 40 mm leaves room for a comb with slits blocked.
+pub const MAX_RAY_SPACING_MM: f64 = 40.0;
+
+/// Largest ray width on paper, mm: rays are some 1–3 mm wide (DESIGN.md,
+/// *memory*); 10 mm allows a broad, badly focused lamp.
+pub const MAX_RAY_WIDTH_MM: f64 = 10.0;
+
+/// Largest thickness, height or side of a piece, mm: tray pieces fit in a
+/// hand and on one sheet of A3 (our bound, common practice, no source).
+pub const MAX_PIECE_MM: f64 = 300.0;
+
+const PIECE_WHY: &str = "classroom pieces fit on a sheet of paper";
+
 /// A validated kit.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Kit {
@@ -266,6 +285,29 @@ impl Validator<'_> {
         }
     }
 
+    /// A length above 0 and at most `max_mm`, the largest a classroom kit has
+    /// (`why` says so in the hint).
+    fn length(
+        &self,
+        v: &Spanned<f64>,
+        field: String,
+        what: &str,
+        max_mm: f64,
+        why: &str,
+    ) -> Result<f64, KitError> {
+        let x = *v.get_ref();
+        if x.is_finite() && x > 0.0 && x <= max_mm {
+            Ok(x)
+        } else {
+            self.err(
+                v.span(),
+                field,
+                format!("{x} is not a usable {what}"),
+                &format!("give a finite number of millimetres above 0 and at most {max_mm} ({why})"),
+            )
+        }
+    }
+
     fn kit(&self, raw: RawKit) -> Result<Kit, KitError> {
         if let Some(t) = &raw.title {
             self.printable(t, "title".into())?;
@@ -274,12 +316,14 @@ impl Validator<'_> {
         let mut materials = BTreeMap::new();
         for (name, m) in &raw.materials {
             let n = *m.get_ref().index.get_ref();
-            if !(n.is_finite() && n > 1.0) {
+            if !(n.is_finite() && n > 1.0 && n <= MAX_INDEX) {
                 return self.err(
                     m.get_ref().index.span(),
                     format!("materials.{name}.index"),
                     format!("index {n} is not a usable index of refraction"),
-                    "give a finite number above 1, at the ray box's wavelength (acrylic is about 1.49)",
+                    &format!(
+                        "give a finite number above 1 and at most {MAX_INDEX}, at the ray box's wavelength (acrylic is about 1.49, glass 1.5 to 1.9, diamond 2.42)"
+                    ),
                 );
             }
             materials.insert(name.clone(), n);
@@ -324,10 +368,22 @@ impl Validator<'_> {
             rb.rays = n as u32;
         }
         if let Some(s) = &raw.spacing_mm {
-            rb.spacing_mm = self.positive(s, "ray_box.spacing_mm".into(), "ray spacing")?;
+            rb.spacing_mm = self.length(
+                s,
+                "ray_box.spacing_mm".into(),
+                "ray spacing",
+                MAX_RAY_SPACING_MM,
+                "a ray box's slits are some 5 to 15 mm apart",
+            )?;
         }
         if let Some(w) = &raw.ray_width_mm {
-            rb.ray_width_mm = self.positive(w, "ray_box.ray_width_mm".into(), "ray width")?;
+            rb.ray_width_mm = self.length(
+                w,
+                "ray_box.ray_width_mm".into(),
+                "ray width",
+                MAX_RAY_WIDTH_MM,
+                "a ray box's rays are some 1 to 3 mm wide on paper",
+            )?;
             if rb.ray_width_mm >= rb.spacing_mm {
                 return self.err(
                     w.span(),
@@ -535,18 +591,33 @@ impl Validator<'_> {
             "lens" => {
                 let front = self.face(p.front.as_ref().expect("checked"), f("front"))?;
                 let back = self.face(p.back.as_ref().expect("checked"), f("back"))?;
-                let thickness = self.positive(&req(&p.thickness_mm), f("thickness_mm"), "thickness")?;
-                let height = self.positive(&req(&p.height_mm), f("height_mm"), "height")?;
+                let thickness = self.length(
+                    &req(&p.thickness_mm),
+                    f("thickness_mm"),
+                    "thickness",
+                    MAX_PIECE_MM,
+                    PIECE_WHY,
+                )?;
+                let height =
+                    self.length(&req(&p.height_mm), f("height_mm"), "height", MAX_PIECE_MM, PIECE_WHY)?;
                 Piece::Lens(Lens::new(front, back, thickness, height, index).map_err(map_err)?)
             }
             "block" => {
-                let thickness = self.positive(&req(&p.thickness_mm), f("thickness_mm"), "thickness")?;
-                let height = self.positive(&req(&p.height_mm), f("height_mm"), "height")?;
+                let thickness = self.length(
+                    &req(&p.thickness_mm),
+                    f("thickness_mm"),
+                    "thickness",
+                    MAX_PIECE_MM,
+                    PIECE_WHY,
+                )?;
+                let height =
+                    self.length(&req(&p.height_mm), f("height_mm"), "height", MAX_PIECE_MM, PIECE_WHY)?;
                 Piece::Block(Block::new(thickness, height, index).map_err(map_err)?)
             }
             _ => {
                 let apex = *req(&p.apex_deg).get_ref();
-                let side = self.positive(&req(&p.side_mm), f("side_mm"), "side length")?;
+                let side =
+                    self.length(&req(&p.side_mm), f("side_mm"), "side length", MAX_PIECE_MM, PIECE_WHY)?;
                 Piece::Prism(Prism::new(apex, side, index).map_err(map_err)?)
             }
         };
@@ -631,11 +702,20 @@ impl Validator<'_> {
             }
         }
         if let Err(msg) = spec.check() {
-            let hint = format!(
-                "give paper at least {:.1} mm wide on its short side with a {} mm margin",
-                crate::paper::MIN_PRINTABLE_MM + 2.0 * spec.margin_mm,
-                spec.margin_mm
-            );
+            let narrow = spec.size.width_mm - 2.0 * spec.margin_mm < crate::paper::MIN_PRINTABLE_MM;
+            let hint = if narrow {
+                format!(
+                    "give paper at least {:.1} mm wide on its short side with a {} mm margin",
+                    crate::paper::MIN_PRINTABLE_MM + 2.0 * spec.margin_mm,
+                    spec.margin_mm
+                )
+            } else {
+                let (w, h) = spec.smallest_paper_mm();
+                format!(
+                    "give paper at least {w:.0} × {h:.0} mm with a {} mm margin, such as A5",
+                    spec.margin_mm
+                )
+            };
             return self.err(whole, "paper".into(), msg, &hint);
         }
         Ok(spec)

@@ -11,6 +11,9 @@ pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_
 
 use crate::draw::{Drawing, leading, text, wrap};
 use crate::geom::{Point, Vec2};
+use crate::paper::bands::{
+    CAUTION_MM, GAP_MM, HEADER_MM, SIDE_BLOCK_MM, SIDE_BY_SIDE_FROM_MM, TEXT_BLOCK_MM,
+};
 use crate::paper::{Orientation, PaperSpec};
 use crate::scene::{Anchor, Item, MarkerShape, Page, Rect, Scene, Stroke, Weight};
 use crate::sheets::SheetPlan;
@@ -26,8 +29,6 @@ pub enum Role {
 
 /// Overlap between neighbouring tiles, mm.
 pub const TILE_OVERLAP_MM: f64 = 12.0;
-const HEADER_MM: f64 = 15.0;
-const CAUTION_MM: f64 = 8.0;
 const BODY_PT: f64 = 8.0;
 
 /// The regions of a page, page mm.
@@ -48,15 +49,16 @@ pub struct Regions {
 }
 
 /// Works out the page regions for this paper. Wide pages (≥ 250 mm printable)
-/// put the text and side blocks side by side; narrow ones stack them.
+/// put the text and side blocks side by side; narrow ones stack them. The band
+/// sizes are [`crate::paper::bands`], which the paper check also uses.
 pub fn regions(paper: &PaperSpec) -> Regions {
     let (w, h) = paper.page_mm();
     let m = paper.margin_mm;
     let printable = Rect { min: Point::new(m, m), max: Point::new(w - m, h - m) };
     let pw = printable.width();
     let caution = Rect { min: printable.min, max: Point::new(printable.max.x, m + CAUTION_MM) };
-    let (text_block, side_block, footer_top) = if pw >= 250.0 {
-        let top = m + CAUTION_MM + 58.0;
+    let (text_block, side_block, footer_top) = if pw >= SIDE_BY_SIDE_FROM_MM {
+        let top = m + CAUTION_MM + TEXT_BLOCK_MM;
         let split = m + 152.0;
         (
             Rect { min: Point::new(m, m + CAUTION_MM), max: Point::new(split, top) },
@@ -64,15 +66,15 @@ pub fn regions(paper: &PaperSpec) -> Regions {
             top,
         )
     } else {
-        let side_top = m + CAUTION_MM + 56.0;
-        let top = side_top + 58.0;
+        let side_top = m + CAUTION_MM + SIDE_BLOCK_MM;
+        let top = side_top + TEXT_BLOCK_MM;
         (
             Rect { min: Point::new(m, side_top), max: Point::new(w - m, top) },
             Rect { min: Point::new(m, m + CAUTION_MM), max: Point::new(w - m, side_top) },
             top,
         )
     };
-    let drawing = Rect { min: Point::new(m, footer_top + 3.0), max: Point::new(w - m, h - m - HEADER_MM) };
+    let drawing = Rect { min: Point::new(m, footer_top + GAP_MM), max: Point::new(w - m, h - m - HEADER_MM) };
     Regions { page: (w, h), printable, drawing, text_block, side_block, caution }
 }
 
@@ -88,13 +90,17 @@ pub struct Tiling {
 impl Tiling {
     /// Number of pages.
     pub fn pages(&self) -> usize {
-        self.columns * self.rows
+        self.columns.saturating_mul(self.rows)
     }
 }
 
 fn tiles_needed(length: f64, window: f64) -> usize {
     if length <= window + 1e-9 {
         1
+    } else if window <= TILE_OVERLAP_MM + 1.0 || !length.is_finite() {
+        // A window no larger than the overlap never advances (paper the paper
+        // check refuses): as many pages as can be counted, so the page limits refuse it.
+        usize::MAX
     } else {
         // Saturates for absurd lengths (the build refuses those before layout).
         ((length - TILE_OVERLAP_MM) / (window - TILE_OVERLAP_MM)).ceil().min(1e9) as usize
@@ -114,13 +120,17 @@ fn tiling_on(p: &SheetPlan, paper: &PaperSpec) -> Tiling {
 
 /// The paper one plan is laid out on. With `orientation = "auto"` a sheet is
 /// landscape (the optical axis along the long side) unless it would need more
-/// pages than in portrait, as a tall block or prism setup can.
+/// pages than in portrait, as a tall block or prism setup can, or a landscape
+/// page has no room for the drawing at all (A5: see [`PaperSpec::page_mm`]).
 pub fn paper_for(p: &SheetPlan, paper: &PaperSpec) -> PaperSpec {
     if paper.orientation != Orientation::Auto {
         return paper.clone();
     }
     let landscape = PaperSpec { orientation: Orientation::Landscape, ..paper.clone() };
     let portrait = PaperSpec { orientation: Orientation::Portrait, ..paper.clone() };
+    if landscape.check().is_err() {
+        return portrait;
+    }
     if tiling_on(p, &portrait).pages() < tiling_on(p, &landscape).pages() { portrait } else { paper.clone() }
 }
 
@@ -237,7 +247,8 @@ fn join_marks(p: &SheetPlan, tiling: &Tiling, win: &Rect) -> Vec<Item> {
         let x = s.x_min + col as f64 * (win.width() - TILE_OVERLAP_MM) + TILE_OVERLAP_MM / 2.0;
         let cy = (s.y_min + s.y_max) / 2.0;
         for y in [s.y_max - 4.0, s.y_min + 4.0] {
-            let at = Point::new(x, y.clamp(cy - win.height() / 2.0 + 4.0, cy + win.height() / 2.0 - 4.0));
+            // max then min, not clamp: a window under 8 mm must not panic.
+            let at = Point::new(x, y.max(cy - win.height() / 2.0 + 4.0).min(cy + win.height() / 2.0 - 4.0));
             out.push(Item::Marker { at, shape: MarkerShape::Cross, size_mm: 7.0, stroke });
             out.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 4.0, stroke });
         }

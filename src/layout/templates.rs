@@ -1,10 +1,10 @@
 //! The editable sheet text in `templates/`, compiled in.
 
 use serde::Deserialize;
+use toml::Spanned;
 
 /// Text for one sheet kind.
-#[derive(Deserialize, Debug, Clone)]
-#[serde(deny_unknown_fields)]
+#[derive(Debug, Clone)]
 pub struct SheetText {
     /// Heading printed at the top.
     pub heading: String,
@@ -15,8 +15,7 @@ pub struct SheetText {
 }
 
 /// Text printed on every sheet.
-#[derive(Deserialize, Debug, Clone)]
-#[serde(deny_unknown_fields)]
+#[derive(Debug, Clone)]
 pub struct CommonText {
     /// The one-line safety caution.
     pub safety: String,
@@ -67,47 +66,134 @@ pub fn shipped_text(name: &str) -> Option<&'static str> {
 /// Most instruction lines a sheet has room for.
 pub const MAX_INSTRUCTIONS: usize = 7;
 
-fn parse<T: for<'de> Deserialize<'de>>(text: &str, shown: &str) -> Result<T, String> {
-    toml::from_str(text).map_err(|e| format!("{shown}: {}", e.to_string().trim_end()))
+/// A template file's text with the name to show: errors read
+/// `NAME:LINE:COLUMN: field `F`: …`, on one line.
+struct Source<'a> {
+    shown: &'a str,
+    text: &'a str,
 }
 
-fn printable(text: &str, shown: &str, field: &str) -> Result<(), String> {
-    let missing = crate::font::unsupported_chars(text);
-    if let Some(c) = missing.first() {
-        return Err(format!(
-            "{shown}: field `{field}`: the shipped font (DejaVu Sans) cannot print '{c}' (U+{:04X}); use Latin, Greek or Cyrillic letters, digits and common symbols",
-            *c as u32
-        ));
+impl Source<'_> {
+    /// 1-based line and column (in characters) of byte `offset`.
+    fn line_col(&self, offset: usize) -> (usize, usize) {
+        let mut i = offset.min(self.text.len());
+        while !self.text.is_char_boundary(i) {
+            i -= 1;
+        }
+        let before = &self.text[..i];
+        let line = before.matches('\n').count() + 1;
+        (line, before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1)
     }
-    if text.chars().any(char::is_control) {
-        return Err(format!(
-            "{shown}: field `{field}`: contains a control character; give one line per list entry"
-        ));
+
+    fn error(&self, span: &std::ops::Range<usize>, field: &str, msg: &str) -> String {
+        let (line, col) = self.line_col(span.start);
+        format!("{}:{line}:{col}: field `{field}`: {msg}", self.shown)
     }
-    Ok(())
+
+    fn parse<T: for<'de> Deserialize<'de>>(&self) -> Result<T, String> {
+        toml::from_str(self.text).map_err(|e| {
+            // toml's own message, without its multi-line source snippet: one line.
+            let (line, col) = self.line_col(e.span().map_or(0, |s| s.start));
+            let msg = e.message().split_whitespace().collect::<Vec<_>>().join(" ");
+            format!("{}:{line}:{col}: {msg}", self.shown)
+        })
+    }
+
+    /// Checks one text field: no control characters (a newline, a tab), and
+    /// every character in the shipped font. Characters are shown escaped, so
+    /// the message stays on one line.
+    fn printable(&self, v: &Spanned<String>, field: &str) -> Result<(), String> {
+        let text = v.get_ref();
+        if let Some(c) = text.chars().find(|c| c.is_control()) {
+            return Err(self.error(
+                &v.span(),
+                field,
+                &format!(
+                    "contains a control character ('{}', U+{:04X}); keep each entry on one line and give one line per list entry",
+                    c.escape_debug(),
+                    c as u32
+                ),
+            ));
+        }
+        if let Some(c) = crate::font::unsupported_chars(text).first() {
+            return Err(self.error(
+                &v.span(),
+                field,
+                &format!(
+                    "the shipped font (DejaVu Sans) cannot print '{}' (U+{:04X}); use Latin, Greek or Cyrillic letters, digits and common symbols",
+                    c.escape_debug(),
+                    *c as u32
+                ),
+            ));
+        }
+        Ok(())
+    }
 }
 
-fn check_sheet(t: &SheetText, shown: &str) -> Result<(), String> {
-    printable(&t.heading, shown, "heading")?;
-    if t.instructions.len() > MAX_INSTRUCTIONS {
-        return Err(format!(
-            "{shown}: field `instructions`: {} lines is more than the {MAX_INSTRUCTIONS} a sheet has room for",
-            t.instructions.len()
+/// [`SheetText`] as written, with the place of every value.
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawSheet {
+    heading: Spanned<String>,
+    instructions: Spanned<Vec<Spanned<String>>>,
+    columns: Spanned<Vec<Spanned<String>>>,
+}
+
+/// [`CommonText`] as written, with the place of every value.
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawCommon {
+    safety: Spanned<String>,
+    scale_check: Spanned<String>,
+    scale_check_vertical: Spanned<String>,
+    scale_hint: Spanned<String>,
+}
+
+fn check_sheet(src: &Source<'_>) -> Result<SheetText, String> {
+    let t: RawSheet = src.parse()?;
+    src.printable(&t.heading, "heading")?;
+    let lines = t.instructions.get_ref();
+    if lines.len() > MAX_INSTRUCTIONS {
+        return Err(src.error(
+            &t.instructions.span(),
+            "instructions",
+            &format!("{} lines is more than the {MAX_INSTRUCTIONS} a sheet has room for", lines.len()),
         ));
     }
-    for (i, l) in t.instructions.iter().enumerate() {
-        printable(l, shown, &format!("instructions[{}]", i + 1))?;
+    for (i, l) in lines.iter().enumerate() {
+        src.printable(l, &format!("instructions[{}]", i + 1))?;
     }
-    if t.columns.len() != 4 {
-        return Err(format!(
-            "{shown}: field `columns`: the measurement table has 4 columns; {} were given",
-            t.columns.len()
+    let columns = t.columns.get_ref();
+    if columns.len() != 4 {
+        return Err(src.error(
+            &t.columns.span(),
+            "columns",
+            &format!("the measurement table has 4 columns; {} were given", columns.len()),
         ));
     }
-    for (i, c) in t.columns.iter().enumerate() {
-        printable(c, shown, &format!("columns[{}]", i + 1))?;
+    for (i, c) in columns.iter().enumerate() {
+        src.printable(c, &format!("columns[{}]", i + 1))?;
     }
-    Ok(())
+    let text = |v: &[Spanned<String>]| v.iter().map(|s| s.get_ref().clone()).collect();
+    Ok(SheetText { heading: t.heading.into_inner(), instructions: text(lines), columns: text(columns) })
+}
+
+fn check_common(src: &Source<'_>) -> Result<CommonText, String> {
+    let c: RawCommon = src.parse()?;
+    for (field, v) in [
+        ("safety", &c.safety),
+        ("scale_check", &c.scale_check),
+        ("scale_check_vertical", &c.scale_check_vertical),
+        ("scale_hint", &c.scale_hint),
+    ] {
+        src.printable(v, field)?;
+    }
+    Ok(CommonText {
+        safety: c.safety.into_inner(),
+        scale_check: c.scale_check.into_inner(),
+        scale_check_vertical: c.scale_check_vertical.into_inner(),
+        scale_hint: c.scale_hint.into_inner(),
+    })
 }
 
 impl Templates {
@@ -119,8 +205,9 @@ impl Templates {
 
     /// The shipped templates with some files replaced: `overrides` maps a file
     /// name from [`FILES`] to (the path to show in messages, its text). Each
-    /// file is checked: TOML syntax and fields (located), printable text, at
-    /// most [`MAX_INSTRUCTIONS`] instruction lines, four table columns.
+    /// file is checked: TOML syntax and fields, printable text, at most
+    /// [`MAX_INSTRUCTIONS`] instruction lines, four table columns. Every error
+    /// names the file, line, column and field, on one line.
     pub fn with_overrides(
         overrides: &std::collections::BTreeMap<String, (String, String)>,
     ) -> Result<Templates, String> {
@@ -130,25 +217,12 @@ impl Templates {
                 None => (format!("templates/{name}"), shipped_text(name).unwrap_or_default().to_string()),
             }
         };
-        let sheet = |name: &str| -> Result<SheetText, String> {
-            let (shown, text) = get(name);
-            let t: SheetText = parse(&text, &shown)?;
-            check_sheet(&t, &shown)?;
-            Ok(t)
-        };
         let (shown, text) = get("common.toml");
-        let common: CommonText = parse(&text, &shown)?;
-        for (field, v) in [
-            ("safety", &common.safety),
-            ("scale_check", &common.scale_check),
-            ("scale_check_vertical", &common.scale_check_vertical),
-            ("scale_hint", &common.scale_hint),
-        ] {
-            printable(v, &shown, field)?;
-        }
+        let common = check_common(&Source { shown: &shown, text: &text })?;
         let mut sheets = std::collections::BTreeMap::new();
         for name in FILES.iter().filter(|n| **n != "common.toml") {
-            sheets.insert(*name, sheet(name)?);
+            let (shown, text) = get(name);
+            sheets.insert(*name, check_sheet(&Source { shown: &shown, text: &text })?);
         }
         Ok(Templates { sheets, common })
     }
@@ -181,14 +255,63 @@ mod tests {
             "focal.toml",
             "heading = \"x\"\ninstructions = []\ncolumns = [\"a\"]\n",
         ));
-        assert!(bad.unwrap_err().contains("mine/focal.toml: field `columns`"));
+        // Line 3, column 11: where the list opens.
+        assert!(bad.unwrap_err().starts_with("mine/focal.toml:3:11: field `columns`"));
         let syntax = super::Templates::with_overrides(&one("common.toml", "safety = \n")).unwrap_err();
-        assert!(syntax.starts_with("mine/common.toml:") && syntax.contains("line 1"), "{syntax}");
+        assert!(syntax.starts_with("mine/common.toml:1:") && !syntax.contains('\n'), "{syntax}");
         let glyph = super::Templates::with_overrides(&one(
             "focal.toml",
             "heading = \"漢\"\ninstructions = []\ncolumns = [\"a\",\"b\",\"c\",\"d\"]\n",
         ));
         assert!(glyph.unwrap_err().contains("U+6F22"));
+    }
+
+    /// Issue 12, finding 7: template errors named the file and field but not
+    /// the line, and a template with a newline in a heading printed the raw
+    /// newline inside the message.
+    #[test]
+    fn template_errors_without_a_line_number() {
+        let cols = "columns = [\"a\", \"b\", \"c\", \"d\"]";
+        let cases = [
+            // (file text, line:column, field, words)
+            (
+                format!("heading = \"\"\"two\nlines\"\"\"\ninstructions = []\n{cols}\n"),
+                "1:11",
+                "heading",
+                "U+000A",
+            ),
+            (
+                format!(
+                    "heading = \"x\"\ninstructions = [\"1\", \"2\", \"3\", \"4\", \"5\", \"6\", \"7\", \"8\"]\n{cols}\n"
+                ),
+                "2:16",
+                "instructions",
+                "8 lines",
+            ),
+            (
+                format!("heading = \"x\"\ninstructions = [\"ok\",\n  \"tab\\there\"]\n{cols}\n"),
+                "3:3",
+                "instructions[2]",
+                "U+0009",
+            ),
+            (
+                "heading = \"x\"\ninstructions = []\ncolumns = [\"a\", \"b\", \"c\", \"漢\"]\n".to_string(),
+                "3:27",
+                "columns[4]",
+                "U+6F22",
+            ),
+            (
+                "heading = \"x\"\ninstructions = []\n\ncolumns = [\"a\"]\n".to_string(),
+                "4:11",
+                "columns",
+                "4 columns",
+            ),
+        ];
+        for (text, at, field, words) in cases {
+            let err = super::Templates::with_overrides(&one("focal.toml", &text)).unwrap_err();
+            assert!(err.starts_with(&format!("mine/focal.toml:{at}: field `{field}`: ")), "{err}");
+            assert!(err.contains(words) && !err.contains('\n') && !err.contains('\t'), "{err:?}");
+        }
     }
 
     #[test]

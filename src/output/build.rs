@@ -81,12 +81,19 @@ fn scene_files(
     Ok(())
 }
 
-/// Refuses, before any layout, a set whose sheets and keys would need more
+/// Refuses, before any layout, a set where one sheet would be tiled over more
+/// than [`MAX_SHEET_PAGES`] pages, or whose sheets and keys would need more
 /// than [`MAX_PAGES`] pages (a setup tiled over thousands of pages, say).
 fn check_pages<'a>(plans: impl Iterator<Item = &'a SheetPlan>, paper: &PaperSpec) -> Result<(), BuildError> {
     let mut total: usize = 0;
     for p in plans {
         let n = layout::pages_needed(p, paper);
+        if n > MAX_SHEET_PAGES {
+            return Err(BuildError::TooLarge(format!(
+                "sheet {} would be tiled over {n} pages, more than the {MAX_SHEET_PAGES} pages raysheet prints for one sheet; check the piece's sizes, its curves and the ray box, or use larger paper",
+                p.number
+            )));
+        }
         total = total.saturating_add(n.saturating_mul(2));
         if total > MAX_PAGES {
             return Err(BuildError::TooLarge(format!(
@@ -96,6 +103,22 @@ fn check_pages<'a>(plans: impl Iterator<Item = &'a SheetPlan>, paper: &PaperSpec
         }
     }
     Ok(())
+}
+
+/// What `build` checks before any layout, for `check` to warn about too: the
+/// kit has sheets, the paper holds a drawing, and no sheet or set needs too
+/// many pages. `plans` are every plan the build would lay out (every group's,
+/// for a class set).
+pub fn preflight<'a>(
+    kit: &Kit,
+    plans: impl Iterator<Item = &'a SheetPlan>,
+    paper: &PaperSpec,
+) -> Result<(), BuildError> {
+    if kit.sheets.is_empty() {
+        return Err(BuildError::Empty);
+    }
+    paper.check().map_err(BuildError::TooLarge)?;
+    check_pages(plans, paper)
 }
 
 /// Builds the student sheets, keys and answer file for already-made plans,
@@ -123,7 +146,7 @@ pub fn build_plans_with(
     if plans.is_empty() {
         return Err(BuildError::Empty);
     }
-    check_pages(plans.iter(), paper)?;
+    preflight(kit, plans.iter(), paper)?;
     let set = layout::layout(&kit.title, plans, paper, templates);
     if set.sheets.pages.len() + set.keys.pages.len() > MAX_PAGES {
         return Err(BuildError::TooLarge(format!(
@@ -143,6 +166,11 @@ pub fn build_plans_with(
 
 /// Largest number of pages a class set may have (a runaway guard).
 pub const MAX_PAGES: usize = 2000;
+
+/// Largest number of pages one sheet may be tiled over: beyond this nobody
+/// tapes a sheet together (our bound, common practice, no source). In 20
+/// landscape A4 pages (5 × 4 tiles) a setup may be about 1.3 m by 0.4 m.
+pub const MAX_SHEET_PAGES: usize = 20;
 
 /// Builds a class set: per-group folders with sheets, keys and SVGs; every
 /// group's sheets and keys in one PDF each; the summary; the answer file.
@@ -164,10 +192,7 @@ pub fn build_class_with(
     formats: Formats,
     templates: &Templates,
 ) -> Result<Vec<Output>, BuildError> {
-    if kit.sheets.is_empty() {
-        return Err(BuildError::Empty);
-    }
-    check_pages(class.plans.iter().flatten(), paper)?;
+    preflight(kit, class.plans.iter().flatten(), paper)?;
     let mut all_sheets =
         Scene { title: format!("{}: student sheets, all groups", kit.title), pages: Vec::new() };
     let mut all_keys = Scene { title: format!("{}: answer keys, all groups", kit.title), pages: Vec::new() };

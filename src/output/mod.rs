@@ -7,5 +7,6 @@ pub mod report;
 pub mod summary;
 
 pub use build::{
-    BuildError, Formats, MAX_PAGES, Output, build_class, build_class_with, build_plans, build_plans_with,
+    BuildError, Formats, MAX_PAGES, MAX_SHEET_PAGES, Output, build_class, build_class_with, build_plans,
+    build_plans_with, preflight,
 };

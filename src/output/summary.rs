@@ -3,9 +3,21 @@
 
 use crate::sheets::ClassPlan;
 
-/// Quotes a CSV field when it needs it (RFC 4180).
+/// Quotes a CSV field when it needs it (RFC 4180), and neutralises a field a
+/// spreadsheet would run as a formula, as OWASP's "CSV Injection" page
+/// advises: a field that starts with `=`, `+`, `-`, `@`, a tab or a carriage
+/// return gets a leading `'` and is quoted. Numbers (a height of `-12.500`)
+/// are left as numbers.
 fn field(s: &str) -> String {
-    if s.contains([',', '"', '\n', '\r']) { format!("\"{}\"", s.replace('"', "\"\"")) } else { s.to_string() }
+    let formula =
+        s.starts_with(['=', '+', '-', '@', '\t', '\r']) && !s.parse::<f64>().is_ok_and(f64::is_finite);
+    if formula {
+        format!("\"'{}\"", s.replace('"', "\"\""))
+    } else if s.contains([',', '"', '\n', '\r']) {
+        format!("\"{}\"", s.replace('"', "\"\""))
+    } else {
+        s.to_string()
+    }
 }
 
 /// Columns every row has.
@@ -48,4 +60,27 @@ pub fn summary_csv(class: &ClassPlan) -> String {
         }
     }
     s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::field;
+
+    /// Issue 12, finding 9: a roster name such as `=cmd|' /C calc'!A0` was
+    /// written to summary.csv as-is, and a spreadsheet runs it as a formula.
+    #[test]
+    fn csv_injection_in_summary_csv() {
+        assert_eq!(field("=cmd|' /C calc'!A0"), "\"'=cmd|' /C calc'!A0\"");
+        assert_eq!(field("@SUM(A1:A9)"), "\"'@SUM(A1:A9)\"");
+        assert_eq!(field("+1\"x"), "\"'+1\"\"x\"");
+        assert_eq!(field("-foo"), "\"'-foo\"");
+        assert_eq!(field("\tbench"), "\"'\tbench\"");
+        // Numbers stay numbers; ordinary text stays as it was; RFC 4180 quoting still applies.
+        assert_eq!(field("-12.500"), "-12.500");
+        assert_eq!(field("+3"), "+3");
+        assert_eq!(field("Bench A"), "Bench A");
+        assert_eq!(field("a, b"), "\"a, b\"");
+        // A formula that parses as a non-finite number is still neutralised.
+        assert_eq!(field("-inf"), "\"'-inf\"");
+    }
 }

@@ -18,7 +18,7 @@ use std::fmt;
 
 use crate::font;
 use crate::geom::{Point, Vec2};
-use crate::scene::Weight;
+use crate::scene::{Dash, Item, OutlinePart, Page, Rect, Stroke, Weight};
 
 pub mod pdf;
 pub mod svg;
@@ -45,7 +45,23 @@ pub enum RenderError {
         /// What the subsetter reported.
         reason: String,
     },
+    /// A number in the drawing is not finite (NaN or infinite) or lies beyond
+    /// [`MAX_COORDINATE_MM`]: writing it would put `NaN` or `inf` into the
+    /// file, which readers reject or draw wrongly. It comes from a defect or
+    /// from input no check caught, so the renderer refuses.
+    NotFinite {
+        /// The page's name.
+        page: String,
+        /// Which item and field (`line end`, `text size`).
+        what: &'static str,
+        /// The value, as written (`NaN`, `inf`, `1e300`).
+        value: String,
+    },
 }
+
+/// The largest coordinate or size a renderer writes, mm (1000 km): far past any
+/// sheet, well inside PDF's single-precision reals.
+pub const MAX_COORDINATE_MM: f64 = 1e9;
 
 impl fmt::Display for RenderError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
@@ -63,11 +79,130 @@ impl fmt::Display for RenderError {
                 "could not subset the shipped font {family} ({weight:?}) for embedding: {reason}",
                 family = font::FAMILY,
             ),
+            RenderError::NotFinite { page, what, value } => write!(
+                f,
+                "page {page}: the drawing has {value} as a {what}, which cannot be printed (a number beyond ±{MAX_COORDINATE_MM} mm or not a number); nothing was written. \
+                 hint: check the kit's numbers; if they are ordinary, this is a raysheet bug worth reporting"
+            ),
         }
     }
 }
 
 impl std::error::Error for RenderError {}
+
+/// Checks every number a page would write: finite and within
+/// ±[`MAX_COORDINATE_MM`]. The first one that is not is the error.
+pub(crate) fn check_finite(page: &Page) -> Result<(), RenderError> {
+    let mut bad: Option<(&'static str, f64)> = None;
+    let mut num = |what: &'static str, v: f64| {
+        if bad.is_none() && !(v.is_finite() && v.abs() <= MAX_COORDINATE_MM) {
+            bad = Some((what, v));
+        }
+    };
+    num("page width", page.width_mm);
+    num("page height", page.height_mm);
+    walk_items(&page.items, &mut num);
+    match bad {
+        None => Ok(()),
+        Some((what, value)) => {
+            Err(RenderError::NotFinite { page: page.name.clone(), what, value: value.to_string() })
+        }
+    }
+}
+
+fn walk_items(items: &[Item], num: &mut impl FnMut(&'static str, f64)) {
+    let point = |what: &'static str, p: Point, num: &mut dyn FnMut(&'static str, f64)| {
+        num(what, p.x);
+        num(what, p.y);
+    };
+    let stroke = |s: &Stroke, num: &mut dyn FnMut(&'static str, f64)| {
+        num("line width", s.width_mm);
+        num("grey level", s.gray);
+        match s.dash {
+            Dash::Solid => {}
+            Dash::Dashed { on_mm, off_mm } => [on_mm, off_mm].into_iter().for_each(|v| num("dash length", v)),
+            Dash::DashDot { long_mm, short_mm, gap_mm } => {
+                [long_mm, short_mm, gap_mm].into_iter().for_each(|v| num("dash length", v))
+            }
+        }
+    };
+    let rect = |r: &Rect, num: &mut dyn FnMut(&'static str, f64)| {
+        [r.min.x, r.min.y, r.max.x, r.max.y].into_iter().for_each(|v| num("box corner", v))
+    };
+    for item in items {
+        match item {
+            Item::Line { from, to, stroke: s } => {
+                point("line end", *from, num);
+                point("line end", *to, num);
+                stroke(s, num);
+            }
+            Item::Polyline { points, closed: _, stroke: s } => {
+                points.iter().for_each(|p| point("polyline point", *p, num));
+                stroke(s, num);
+            }
+            Item::Arc { center, radius_mm, start_rad, sweep_rad, stroke: s } => {
+                point("arc centre", *center, num);
+                num("arc radius", *radius_mm);
+                num("arc angle", *start_rad);
+                num("arc angle", *sweep_rad);
+                stroke(s, num);
+            }
+            Item::Outline { parts, fill, stroke: s } => {
+                for part in parts {
+                    match part {
+                        OutlinePart::MoveTo { to } | OutlinePart::LineTo { to } => {
+                            point("outline point", *to, num)
+                        }
+                        OutlinePart::ArcTo { center, radius_mm, start_rad, sweep_rad } => {
+                            point("outline arc centre", *center, num);
+                            num("outline arc radius", *radius_mm);
+                            num("outline arc angle", *start_rad);
+                            num("outline arc angle", *sweep_rad);
+                        }
+                    }
+                }
+                if let Some(g) = fill {
+                    num("grey level", *g);
+                }
+                stroke(s, num);
+            }
+            Item::Marker { at, shape: _, size_mm, stroke: s } => {
+                point("marker position", *at, num);
+                num("marker size", *size_mm);
+                stroke(s, num);
+            }
+            Item::Arrowhead { tip, dir, length_mm, width_mm, gray } => {
+                point("arrowhead tip", *tip, num);
+                num("arrowhead direction", dir.x);
+                num("arrowhead direction", dir.y);
+                num("arrowhead size", *length_mm);
+                num("arrowhead size", *width_mm);
+                num("grey level", *gray);
+            }
+            Item::Text { at, text: _, size_pt, weight: _, anchor: _, rotate_deg, gray } => {
+                point("text position", *at, num);
+                num("text size", *size_pt);
+                num("text angle", *rotate_deg);
+                num("grey level", *gray);
+            }
+            Item::Box { rect: r, fill, stroke: s } => {
+                rect(r, num);
+                if let Some(g) = fill {
+                    num("grey level", *g);
+                }
+                if let Some(s) = s {
+                    stroke(s, num);
+                }
+            }
+            Item::Group { clip, offset, items } => {
+                rect(clip, num);
+                num("group offset", offset.x);
+                num("group offset", offset.y);
+                walk_items(items, num);
+            }
+        }
+    }
+}
 
 /// Checks that the `weight` face can show every character of `text`; the first
 /// one it cannot show is the error.

@@ -39,8 +39,13 @@ pub fn mm_to_pt(mm: f64) -> f64 {
 ///
 /// Fails with [`RenderError::UnsupportedChar`] before writing anything when a
 /// text holds a character its face cannot show, and with
-/// [`RenderError::FontSubset`] if a shipped font cannot be subset.
+/// [`RenderError::FontSubset`] if a shipped font cannot be subset, and with
+/// [`RenderError::NotFinite`] when a number on a page is NaN, infinite or
+/// absurdly large.
 pub fn render_pdf(scene: &Scene) -> Result<Vec<u8>, RenderError> {
+    for page in &scene.pages {
+        super::check_finite(page)?;
+    }
     let fonts = Fonts::collect(scene)?;
     let contents = scene.pages.iter().map(|p| page_content(p, &fonts)).collect::<Result<Vec<_>, _>>()?;
 

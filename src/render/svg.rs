@@ -24,8 +24,10 @@ use super::{RenderError, check_text};
 ///
 /// Fails with [`RenderError::UnsupportedChar`] when a text item holds a
 /// character the shipped font cannot show (the PDF renderer refuses the same
-/// text, so both formats of a sheet agree).
+/// text, so both formats of a sheet agree), and with [`RenderError::NotFinite`]
+/// when a number on the page is NaN, infinite or absurdly large.
 pub fn render_svg_page(page: &Page, title: &str) -> Result<String, RenderError> {
+    super::check_finite(page)?;
     let w = num(page.width_mm);
     let h = num(page.height_mm);
     let mut ctx = Ctx { flip: Flip { height_mm: page.height_mm }, clips: Vec::new() };

@@ -134,7 +134,8 @@ pub(crate) fn lead_in_for(paraxial: &Paraxial, paper: &PaperSpec) -> f64 {
     let (page_w, _) = paper.page_mm();
     let printable = page_w - 2.0 * paper.margin_mm;
     match paraxial.rear_focus_x() {
-        Some(x) if x < 0.0 => (-x + 25.0).clamp(LEAD_IN_MM, printable * 0.6),
+        // max then min, not clamp: tiny paper must not panic.
+        Some(x) if x < 0.0 => (-x + 25.0).min(printable * 0.6).max(LEAD_IN_MM),
         _ => LEAD_IN_MM,
     }
 }
@@ -151,7 +152,7 @@ pub fn default_heights(kind: SheetKind, band: Option<&SafeBand>, kit: &Kit, a: f
         }
         _ => {
             let Some(b) = band else { return vec![to_grid(a / 3.0, 0.5), -to_grid(a / 3.0, 0.5)] };
-            let inside = |h: f64| h.clamp((b.min_mm / 0.5).ceil() * 0.5, (b.max_mm / 0.5).floor() * 0.5);
+            let inside = |h: f64| band_height(b, h);
             let low = inside(to_grid(a / 3.0, 0.5));
             let high = inside(((b.min_mm + 0.9 * b.width()) / 0.5).floor() * 0.5);
             let mut out = vec![low, -low];
@@ -161,6 +162,22 @@ pub fn default_heights(kind: SheetKind, band: Option<&SafeBand>, kit: &Kit, a: f
             out
         }
     }
+}
+
+/// `h` moved into the band `b`, on the 0.5 mm grid. A band narrower than the
+/// grid may hold no grid height (6.05–6.45 mm, say): then its middle, on a
+/// 0.1 mm grid when that stays inside, else exactly. Never panics, even on a
+/// band whose ends are reversed or not finite (it then gives a finite height
+/// or the band's own values).
+pub fn band_height(b: &SafeBand, h: f64) -> f64 {
+    let lo = (b.min_mm / 0.5).ceil() * 0.5;
+    let hi = (b.max_mm / 0.5).floor() * 0.5;
+    if lo <= hi {
+        return h.max(lo).min(hi);
+    }
+    let mid = (b.min_mm + b.max_mm) / 2.0;
+    let tenth = to_grid(mid, 0.1);
+    if b.contains(tenth) { tenth } else { mid }
 }
 
 /// Traces one guide height and works out its answers; `letter` is its name on
@@ -355,5 +372,41 @@ pub fn plan_sheet_in_band(
             rules,
             setup: super::Setup { x_min, x_max, y_min: -y_half, y_max: y_half },
         })),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::sheets::lens::band::Limit;
+
+    fn band(min_mm: f64, max_mm: f64) -> SafeBand {
+        SafeBand {
+            min_mm,
+            max_mm,
+            min_limit: Limit::NearAxis,
+            max_limit: Limit::CriticalMargin,
+            min_reason: String::new(),
+            max_reason: String::new(),
+        }
+    }
+
+    /// Issue 12, finding 2: a band narrower than the 0.5 mm grid made
+    /// `f64::clamp` panic with min 6.5 > max 6.0.
+    #[test]
+    fn default_heights_clamp_panics_when_band_narrower_than_grid() {
+        let b = band(6.05, 6.45);
+        for h in [0.0, 3.0, 6.2, 20.0] {
+            let got = band_height(&b, h);
+            // The band's middle is 6.25; on the 0.1 mm grid 6.3 (round half away from zero).
+            assert!((got - 6.3).abs() < 1e-12, "{h} → {got}");
+            assert!(b.contains(got));
+        }
+        // Narrower than 0.1 mm with no tenth inside: the exact middle.
+        let b = band(6.01, 6.04);
+        assert!((band_height(&b, 1.0) - 6.025).abs() < 1e-12);
+        // A band with grid heights still keeps h on the grid, inside.
+        let b = band(2.2, 9.9);
+        assert_eq!([band_height(&b, 0.0), band_height(&b, 5.0), band_height(&b, 30.0)], [2.5, 5.0, 9.5]);
     }
 }
