@@ -538,10 +538,12 @@ fn every_valid_fixture_lays_out_cleanly() {
         }
         checked += 1;
         let found = kit_defects(&Lesson::from_toml(&text, &name).expect("checked above"));
-        // The one runaway fixture (a 1000 km radius) is refused by the build and not laid out.
+        // The runaway fixtures (a 1000 km radius; one sheet over 740 pages) are
+        // refused by the build and not laid out.
         let (skipped, found): (Vec<String>, Vec<String>) =
             found.into_iter().partition(|d| d.ends_with("not checked: it needs too many pages"));
-        assert!(skipped.is_empty() || name == "sheets_runaway.toml", "{name}: {skipped:?}");
+        let runaway = ["sheets_runaway.toml", "sheets_one_sheet_740_pages.toml"];
+        assert!(skipped.is_empty() || runaway.contains(&name.as_str()), "{name}: {skipped:?}");
         defects.extend(found.into_iter().map(|d| format!("{name}: {d}")));
     }
     assert!(checked >= 5, "only {checked} valid fixtures");
