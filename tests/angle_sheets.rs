@@ -149,7 +149,7 @@ fn bad_prism_and_block_values_name_the_field_and_the_range() {
     let e = error(&KIT.replace("apex_deg = 60", "apex_deg = 180"));
     assert!(e.contains("field `pieces[2].apex_deg`") && e.contains("below 180 degrees"), "{e}");
     let e = error(&KIT.replace("side_mm = 50", "side_mm = 4"));
-    assert!(e.contains("field `pieces[2].side_mm`") && e.contains("from 10 to 1000 mm"), "{e}");
+    assert!(e.contains("field `pieces[2].side_mm`") && e.contains("from 10 to 300 mm"), "{e}");
     let e = error(&KIT.replace("angles_deg = [30, 45, 60]", "angles_deg = [30, 95]"));
     assert!(e.contains("field `sheets[1].angles_deg[2]`") && e.contains("from 0 to 89.9 degrees"), "{e}");
     let e = error(&KIT.replace("angles_deg = [30, 45, 60]", "heights_mm = [5]"));

@@ -102,9 +102,9 @@ pub const MAX_RAY_SPACING_MM: f64 = 40.0;
 /// *memory*); 10 mm allows a broad, badly focused lamp.
 pub const MAX_RAY_WIDTH_MM: f64 = 10.0;
 
-/// Largest thickness, height or side of a piece, mm: tray pieces fit in a
-/// hand and on one sheet of A3 (our bound, common practice, no source).
-pub const MAX_PIECE_MM: f64 = 300.0;
+/// Largest thickness, height or side of a piece, mm (the optics' own bound,
+/// checked here first so the error points at the field).
+pub use crate::optics::MAX_PIECE_MM;
 
 const PIECE_WHY: &str = "classroom pieces fit on a sheet of paper";
 

@@ -9,8 +9,9 @@ use crate::geom::{Edge, EdgePath, Point, Segment, Shape};
 /// Smallest block or prism length raysheet draws, mm: a few ray widths
 /// (common practice, no source).
 pub const MIN_PIECE_MM: f64 = 10.0;
-/// Largest block or prism length, mm: more than any classroom piece.
-pub const MAX_PIECE_MM: f64 = 1000.0;
+/// Largest thickness, height or side of a piece, mm: tray pieces fit in a
+/// hand and on one sheet of A3 (our bound, common practice, no source).
+pub const MAX_PIECE_MM: f64 = 300.0;
 
 /// A checked piece of the kit.
 #[derive(Clone, Copy, Debug, PartialEq)]
