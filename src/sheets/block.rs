@@ -78,16 +78,7 @@ impl Kind for BlockKind {
             ));
         }
         let angles = av::check_angles(s, 0.0, 89.9)?;
-        Ok(SheetSpec {
-            number: s.number,
-            kind: SheetKind::Block,
-            piece: s.piece,
-            enter: Enter::Side,
-            vary_entry: false,
-            heights_mm: None,
-            angles_deg: angles,
-            line: s.at.line(),
-        })
+        Ok(SheetSpec::angled(s, SheetKind::Block, Enter::Side, angles))
     }
     fn prepare<'a>(
         &self,

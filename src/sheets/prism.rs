@@ -203,16 +203,7 @@ impl Kind for PrismKind {
             },
         };
         let angles = av::check_angles(s, -89.9, 89.9)?;
-        Ok(SheetSpec {
-            number: s.number,
-            kind: SheetKind::Prism,
-            piece: s.piece,
-            enter,
-            vary_entry: false,
-            heights_mm: None,
-            angles_deg: angles,
-            line: s.at.line(),
-        })
+        Ok(SheetSpec::angled(s, SheetKind::Prism, enter, angles))
     }
     fn prepare<'a>(
         &self,

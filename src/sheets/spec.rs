@@ -50,6 +50,27 @@ pub struct SheetSpec {
     pub line: usize,
 }
 
+impl SheetSpec {
+    /// A checked angle sheet (block or prism): no heights, no turning round.
+    pub fn angled(
+        entry: &crate::kit::SheetEntry,
+        kind: SheetKind,
+        enter: Enter,
+        angles_deg: Option<Vec<f64>>,
+    ) -> SheetSpec {
+        SheetSpec {
+            number: entry.number,
+            kind,
+            piece: entry.piece,
+            enter,
+            vary_entry: false,
+            heights_mm: None,
+            angles_deg,
+            line: entry.at.line(),
+        }
+    }
+}
+
 /// What a class variant sets on a sheet: the entry side and the guide values
 /// (heights in mm or angles in degrees, as the kind reads them).
 #[derive(Clone, Debug, PartialEq)]

@@ -2,26 +2,10 @@
 //! (spherical aberration): draws the curve the plan sampled from the exact trace.
 
 use super::LensPlan as SheetPlan;
+use crate::draw::axes::nice_step;
 use crate::draw::text;
 use crate::geom::Point;
 use crate::scene::{Anchor, Dash, Item, MarkerShape, Rect, Stroke, Weight};
-
-/// A step for axis ticks: 1, 2 or 5 × 10^k giving about `n` ticks over `span`.
-fn nice_step(span: f64, n: f64) -> f64 {
-    let raw = (span / n).max(1e-9);
-    let mag = 10f64.powf(raw.log10().floor());
-    let f = raw / mag;
-    let m = if f <= 1.0 {
-        1.0
-    } else if f <= 2.0 {
-        2.0
-    } else if f <= 5.0 {
-        5.0
-    } else {
-        10.0
-    };
-    m * mag
-}
 
 /// Plot items inside `area` (page mm). Distances on the vertical axis are
 /// from the exit vertex (negative for virtual crossings, plotted as their size).
