@@ -197,7 +197,7 @@ impl<'a> LensPrepared<'a> {
         let band_for = |entry: Entry| {
             let outline = Outline::new(lens, entry);
             let lead = lead_in_for(&Paraxial::of(&lens, entry), paper);
-            safe_band(&outline, &rules_for(kit, paper, &outline, lead))
+            safe_band(&outline, &rules_for(spec.kind, kit, paper, &outline, lead))
         };
         // The other side's band is worked out only when class variants may use it.
         let own = entry_of(spec.enter);
@@ -236,9 +236,8 @@ impl Prepared for LensPrepared<'_> {
                     // cross at the same point) and one high ray on either side
                     // (spherical aberration), at least two ray widths apart.
                     let values = grid_values(band.min_mm, band.max_mm, grid);
-                    let mid = band.min_mm + band.width() * 0.6;
                     let before = out.len();
-                    for &low in values.iter().filter(|&&v| v <= mid) {
+                    for low in preferred_lows(&values, lens.half_height_mm()) {
                         for &high in values.iter().filter(|&&v| v - low >= 2.0 * w) {
                             for side in [1.0, -1.0] {
                                 let mut hs = vec![low, -low, side * high];
@@ -321,5 +320,41 @@ impl Prepared for LensPrepared<'_> {
                 )
             }
         }
+    }
+}
+
+/// The symmetric pair's heights a class set deals out: the band's grid values
+/// (`values`, all markable) from a quarter to a third of the half-height `a`,
+/// where teachers place single rays (DESIGN.md, "Where the rays should go";
+/// common practice, no source). When the band holds none there, the values
+/// nearest that range (within 1 mm of the nearest), so the pair stays as
+/// close to it as the band allows.
+pub(crate) fn preferred_lows(values: &[f64], a: f64) -> Vec<f64> {
+    let (lo, hi) = (a / 4.0, a / 3.0);
+    let gap = |v: f64| (lo - v).max(v - hi).max(0.0);
+    let nearest = values.iter().map(|&v| gap(v)).fold(f64::INFINITY, f64::min);
+    values
+        .iter()
+        .copied()
+        .filter(|&v| gap(v) <= nearest.max(0.0) + if nearest > 0.0 { 1.0 } else { 1e-9 })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::preferred_lows;
+
+    #[test]
+    fn class_pairs_sit_a_quarter_to_a_third_of_the_half_height_out() {
+        // a = 50: 12.5–16.7 mm (DESIGN.md's band for single rays).
+        let values: Vec<f64> = (20..=62).map(|i| f64::from(i) * 0.5).collect();
+        let got = preferred_lows(&values, 50.0);
+        assert_eq!(got.first().copied(), Some(12.5));
+        assert_eq!(got.last().copied(), Some(16.5));
+        // a = 31 with the band starting at 10.5 (above a third, 10.33): the
+        // lowest values, within 1 mm of the nearest.
+        let values: Vec<f64> = (21..=38).map(|i| f64::from(i) * 0.5).collect();
+        assert_eq!(preferred_lows(&values, 31.0), vec![10.5, 11.0, 11.5]);
+        assert!(preferred_lows(&[], 31.0).is_empty());
     }
 }

@@ -112,9 +112,17 @@ impl LensPlan {
 /// Band rules for a sheet on this paper: the page's printable length along the
 /// axis (the long side in landscape) bounds where crossings may fall. When
 /// even the paraxial focus falls beyond one page the setup is tiled anyway,
-/// so the page bound is dropped.
-pub fn rules_for(kit: &Kit, paper: &PaperSpec, outline: &Outline, lead_in_mm: f64) -> BandRules {
+/// so the page bound is dropped. A curved-face sheet grades crossings from
+/// its flat face (the entry vertex), a focal sheet from the exit face.
+pub fn rules_for(
+    kind: SheetKind,
+    kit: &Kit,
+    paper: &PaperSpec,
+    outline: &Outline,
+    lead_in_mm: f64,
+) -> BandRules {
     let mut rules = BandRules::for_ray_width(kit.ray_box.ray_width_mm);
+    rules.measure_from_entry = kind == SheetKind::CurvedFace;
     let (page_w, _) = paper.page_mm();
     let printable = page_w - 2.0 * paper.margin_mm;
     let (x0, _) = outline.x_range();
@@ -239,7 +247,7 @@ pub fn plan_sheet(
 ) -> SheetPlan {
     let outline = Outline::new(lens_of(kit, spec), entry);
     let paraxial = Paraxial::of(&outline.piece, entry);
-    let rules = rules_for(kit, paper, &outline, lead_in_for(&paraxial, paper));
+    let rules = rules_for(spec.kind, kit, paper, &outline, lead_in_for(&paraxial, paper));
     let band = safe_band(&outline, &rules);
     plan_sheet_in_band(kit, spec, paper, entry, heights, band)
 }
@@ -258,7 +266,7 @@ pub fn plan_sheet_in_band(
     let outline = Outline::new(lens_of(kit, spec), entry);
     let paraxial = Paraxial::of(&outline.piece, entry);
     let lead_in = lead_in_for(&paraxial, paper);
-    let rules = rules_for(kit, paper, &outline, lead_in);
+    let rules = rules_for(spec.kind, kit, paper, &outline, lead_in);
     let a = outline.a();
     let heights: Vec<f64> = match heights {
         Some(h) => h.to_vec(),

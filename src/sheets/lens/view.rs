@@ -66,29 +66,51 @@ struct RayOut<'a> {
     graded: bool,
 }
 
+/// The student sheet's words for an on-axis ray, in the two measurement columns.
+pub const ON_AXIS_CELLS: [&str; 2] = ["on the axis: goes straight through", "nothing to measure"];
+
 impl LensPlan {
-    fn key_cells(&self, ray: &RayAnswer) -> (String, String) {
-        let (reference, _) = self.measure_from();
-        let tol = |r: &RayAnswer| match (r.graded, r.tolerance_mm) {
-            (true, Some(t)) => format!(" ± {}", fmt1(t)),
-            _ => String::new(),
-        };
-        let (value, note) = match (ray.trace.outcome, ray.crossing_from_entry_mm) {
-            (Outcome::Crosses { .. }, Some(x)) => {
-                (format!("{}{} mm", fmt1(x - reference), tol(ray)), "crosses")
+    /// Where the table's two measurement columns measure from, as x in the
+    /// sheet frame: curved-face sheets from the flat face (the entry vertex)
+    /// and the curved face (the exit vertex); focal sheets from the exit
+    /// face and the centre line drawn on the sheet ([`drawing::centre_line_x`]).
+    pub fn table_references(&self) -> [f64; 2] {
+        match self.kind {
+            SheetKind::CurvedFace => [self.measure_from().0, self.outline.t()],
+            _ => [self.outline.t(), drawing::centre_line_x(&self.outline)],
+        }
+    }
+
+    /// A crossing's distance from the reference at `x_ref`, as the table asks
+    /// for it: after the reference for a real crossing, before it for a
+    /// virtual one (traced back). None when the ray has no crossing.
+    pub fn table_distance(&self, ray: &RayAnswer, x_ref: f64) -> Option<f64> {
+        match (ray.trace.outcome, ray.crossing_from_entry_mm) {
+            (Outcome::Crosses { .. }, Some(x)) => Some(x - x_ref),
+            (Outcome::Virtual { .. }, Some(x)) => Some(x_ref - x),
+            _ => None,
+        }
+    }
+
+    /// The key's two measurement cells for one ray: each distance with its
+    /// accept range (`90.5 ± 3.4 (87.1–93.9)`) when graded, the distance
+    /// marked "not graded" otherwise, or what happened instead.
+    fn key_cells(&self, ray: &RayAnswer) -> [String; 2] {
+        if matches!(ray.trace.outcome, Outcome::OnAxis) {
+            return ON_AXIS_CELLS.map(String::from);
+        }
+        let cell = |x_ref: f64| match (self.table_distance(ray, x_ref), ray.graded, ray.tolerance_mm) {
+            (Some(d), true, Some(t)) => {
+                format!("{} ± {} ({}\u{2013}{})", fmt1(d), fmt1(t), fmt1(d - t), fmt1(d + t))
             }
-            (Outcome::Virtual { .. }, Some(x)) => {
-                (format!("{}{} mm", fmt1(self.outline.t() - x), tol(ray)), "virtual: traced back")
-            }
-            (Outcome::OnAxis, _) => ("on the axis: no crossing".to_string(), "straight through"),
-            (o, _) => ("no crossing".to_string(), o.as_str()),
+            (Some(d), _, _) => format!("{} (not graded)", fmt1(d)),
+            (None, _, _) => String::new(),
         };
-        let note = if ray.crossing_from_entry_mm.is_some() && !ray.graded {
-            "near the axis: not graded".to_string()
-        } else {
-            note.replace('-', " ")
-        };
-        (value, note)
+        let [a, b] = self.table_references();
+        match self.table_distance(ray, a) {
+            Some(_) => [cell(a), cell(b)],
+            None => ["no crossing".to_string(), ray.trace.outcome.as_str().replace('-', " ")],
+        }
     }
 }
 
@@ -117,15 +139,19 @@ impl SheetView for LensPlan {
         self.entry.as_str().to_string()
     }
 
+    fn table_widths(&self) -> [f64; 4] {
+        [0.08, 0.14, 0.39, 0.39]
+    }
+
     fn table_rows(&self, key: bool) -> Vec<Vec<String>> {
         self.rays_top_down()
             .into_iter()
             .map(|r| {
                 let mut row = vec![r.letter.clone(), drawing::signed(r.height_mm)];
                 if key {
-                    let (value, note) = self.key_cells(r);
-                    row.push(value);
-                    row.push(note);
+                    row.extend(self.key_cells(r));
+                } else if matches!(r.trace.outcome, Outcome::OnAxis) {
+                    row.extend(ON_AXIS_CELLS.map(String::from));
                 }
                 row
             })
