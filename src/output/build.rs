@@ -46,10 +46,15 @@ impl std::fmt::Display for BuildError {
         match self {
             BuildError::Render(e) => write!(f, "{e}"),
             BuildError::Templates(e) | BuildError::TooLarge(e) => write!(f, "{e}"),
-            BuildError::Empty => write!(
-                f,
-                "the kit has no [[sheets]], so there is nothing to print; add a [[sheets]] entry (kind = \"curved-face\" or \"focal\", piece = \"…\"), or use `raysheet check` to see its pieces"
-            ),
+            BuildError::Empty => {
+                let kinds: Vec<String> =
+                    crate::sheets::SheetKind::ALL.iter().map(|k| format!("\"{}\"", k.as_str())).collect();
+                write!(
+                    f,
+                    "the kit has no [[sheets]], so there is nothing to print; add a [[sheets]] entry with kind = one of {} and piece = the id of one of the kit's [[pieces]]",
+                    kinds.join(", ")
+                )
+            }
         }
     }
 }
