@@ -449,7 +449,7 @@ fn kit_defects(lesson: &Lesson) -> Vec<String> {
             let group = plan.group.clone().map(|g| format!(" {g}")).unwrap_or_default();
             let is_lens = plan.lens().is_some();
             for role in [Role::Student, Role::Key] {
-                let pages = pages_for(&lesson.title, &plan, &paper, &t, role);
+                let pages = pages_for(&lesson.title, &plan, &paper, &t, role).expect("the shipped text fits");
                 for page in &pages {
                     let off = is_lens.then(|| setup_offset(page));
                     let tiled = pages.len() > 1;
