@@ -550,13 +550,15 @@ fn tile_note(n: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
         "The instructions and the table are on tile 1. The map on the right shows how the tiles join."
             .to_string(),
     ];
+    // Wrapped to the text block: on A5 one line is wider than the page's 128 mm.
     lines
         .iter()
+        .flat_map(|l| wrap(l, BODY_PT, Weight::Regular, r.width()))
         .enumerate()
         .map(|(i, l)| {
             text(
                 Point::new(r.min.x, r.max.y - 3.0 - i as f64 * leading(BODY_PT)),
-                l,
+                &l,
                 BODY_PT,
                 Weight::Regular,
                 Anchor::Start,
