@@ -8,8 +8,8 @@ use crate::scene::Weight;
 
 /// The smallest size any template text is set at, pt.
 pub const FLOOR_PT: f64 = 6.5;
-/// Heading sizes, largest first: a heading is never set below 9 pt.
-pub const HEADING_PT: [f64; 5] = [13.0, 12.0, 11.0, 10.0, 9.0];
+/// Heading sizes, largest first: a heading is never set below 8 pt (A5 with a long group name needs 8).
+pub const HEADING_PT: [f64; 6] = [13.0, 12.0, 11.0, 10.0, 9.0, 8.0];
 /// Instruction sizes, largest first.
 pub const BODY_PT: [f64; 4] = [8.0, 7.5, 7.0, FLOOR_PT];
 /// Sizes of the safety caution and the scale-bar labels.

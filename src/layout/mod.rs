@@ -318,12 +318,24 @@ fn identity_box(p: &SheetPlan, rg: &Regions) -> (Vec<String>, f64, Rect) {
         Some(v) => format!("variant {v}"),
         None => format!("sheet {}", p.number),
     });
-    // A long group name is set smaller so the box leaves room for the heading.
-    let widest = |size: f64| {
+    // A long group name is set smaller so the box leaves room for the heading,
+    // and on narrow paper (A5) also wrapped to two lines at 7 pt.
+    let widest = |lines: &[String], size: f64| {
         lines.iter().map(|l| crate::font::text_width_mm(l, size, Weight::Bold)).fold(0.0, f64::max)
     };
-    let box_pt = if widest(10.0) > 0.35 * (right - left) { 8.0 } else { 10.0 };
-    let wmax = widest(box_pt);
+    let pw = right - left;
+    let box_pt = if widest(&lines, 10.0) <= 0.35 * pw {
+        10.0
+    } else if widest(&lines, 8.0) <= 0.3 * pw || p.group.is_none() {
+        8.0
+    } else {
+        let group = wrap(&lines[0], 7.0, Weight::Bold, 0.28 * pw);
+        if group.len() <= 2 {
+            lines.splice(0..1, group);
+        }
+        7.0
+    };
+    let wmax = widest(&lines, box_pt);
     let bx = Rect { min: Point::new(right - wmax - 6.0, top - 12.5), max: Point::new(right, top) };
     (lines, box_pt, bx)
 }
@@ -339,7 +351,7 @@ fn header_text(p: &SheetPlan, rg: &Regions, t: &Templates) -> Result<(String, f6
     match fit::one_line(&line, &fit::HEADING_PT, Weight::Bold, room) {
         Ok(pt) => Ok((line, pt)),
         Err(_) => {
-            let floor = fit::HEADING_PT[4];
+            let floor = fit::HEADING_PT[fit::HEADING_PT.len() - 1];
             let suffix_mm = crate::font::text_width_mm(&suffix, floor, Weight::Bold);
             Err(Misfit {
                 file: p.view().template().to_string(),
@@ -351,7 +363,12 @@ fn header_text(p: &SheetPlan, rg: &Regions, t: &Templates) -> Result<(String, f6
                     crate::font::text_width_mm(heading, floor, Weight::Bold),
                     (room - suffix_mm).max(0.0),
                     fit::chars_that_fit(heading, floor, Weight::Bold, room - suffix_mm)
-                ),
+                ) + &match &p.group {
+                    Some(g) => {
+                        format!(" (the box holds the group name \"{g}\": a shorter one leaves more room)")
+                    }
+                    None => String::new(),
+                },
             })
         }
     }
@@ -391,7 +408,7 @@ fn header(
         let y = top - 6.25 + (n - 1.0) * step / 2.0 - i as f64 * step - box_pt * 0.13;
         items.push(text(Point::new(right - 3.0, y), l, box_pt, Weight::Bold, Anchor::End));
     }
-    // The heading at the largest size from 13 pt down to 9 pt that fits left of the box.
+    // The heading at the largest size from 13 pt down to 8 pt that fits left of the box.
     let (heading_line, heading_pt) = heading;
     items.push(text(Point::new(left, top - 5.0), heading_line, *heading_pt, Weight::Bold, Anchor::Start));
     // The subtitle fits left of the identity box: 8 pt, else two lines of 7 pt.
