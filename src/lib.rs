@@ -48,7 +48,7 @@
 //! let got = plans[0].lens().unwrap().rays[0].crossing_from_entry_mm.unwrap();
 //! assert!((got - expected).abs() < 1e-9);
 //!
-//! let set = layout(&kit.title, &plans, &kit.paper, &Templates::shipped()?);
+//! let set = layout(&kit.title, &plans, &kit.paper, &Templates::shipped()?)?;
 //! let svg = render_svg_page(&set.keys.pages[0], &set.keys.title)?;
 //! assert!(svg.starts_with("<svg") && svg.contains(r#"width="297mm""#));
 //! # Ok::<(), Box<dyn std::error::Error>>(())

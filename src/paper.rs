@@ -155,6 +155,26 @@ impl PaperSpec {
         (MIN_PRINTABLE_MM + 2.0 * m, below + MIN_DRAWING_MM + 2.0 * m)
     }
 
+    /// The largest margin, to 0.1 mm, that this paper and orientation accept
+    /// (the printable width and the drawing area both count, so A5 allows
+    /// 15 mm, not the 24 mm its width alone would); `None` when even no margin
+    /// is too much. Room only shrinks as the margin grows, so a bisection over
+    /// tenths of a millimetre finds it.
+    pub fn largest_margin_mm(&self) -> Option<f64> {
+        let ok = |tenths: i64| PaperSpec { margin_mm: tenths as f64 / 10.0, ..self.clone() }.check().is_ok();
+        let width_limit = ((self.size.width_mm - MIN_PRINTABLE_MM) / 2.0).max(0.0);
+        if !width_limit.is_finite() || !ok(0) {
+            return None;
+        }
+        let (mut lo, mut hi) = (0_i64, (width_limit * 10.0).floor() as i64 + 1);
+        // ok(lo) holds and ok(hi) fails (hi is past the width limit).
+        while hi - lo > 1 {
+            let mid = (lo + hi) / 2;
+            if ok(mid) { lo = mid } else { hi = mid }
+        }
+        Some(lo as f64 / 10.0)
+    }
+
     /// Checks that the margin leaves a usable printable area. The error says why.
     pub fn check(&self) -> Result<(), String> {
         let m = self.margin_mm;
@@ -199,5 +219,36 @@ impl PaperSpec {
             ));
         }
         Ok(())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn spec(size: PaperSize, orientation: Orientation) -> PaperSpec {
+        PaperSpec { size, orientation, margin_mm: 10.0 }
+    }
+
+    /// The hint once said "up to 24 mm" on A5, from its width alone; the
+    /// drawing area below the bands allows 15 mm (210 − 2m − 140 ≥ 40, the
+    /// bands and the smallest drawing in [`bands`]).
+    #[test]
+    fn largest_margin_counts_the_drawing_area_not_only_the_width() {
+        let a5 = spec(PaperSize::custom(148.0, 210.0), Orientation::Auto);
+        assert_eq!(a5.largest_margin_mm(), Some(15.0));
+        // A4 in portrait is limited by its width: (210 − 100) / 2.
+        assert_eq!(spec(PaperSize::named("A4").unwrap(), Orientation::Auto).largest_margin_mm(), Some(55.0));
+        // A4 in landscape: side by side until the printable width falls under 250 mm, (297 − 250) / 2.
+        assert_eq!(
+            spec(PaperSize::named("A4").unwrap(), Orientation::Landscape).largest_margin_mm(),
+            Some(23.5)
+        );
+        assert_eq!(spec(PaperSize::custom(90.0, 400.0), Orientation::Auto).largest_margin_mm(), None);
+        for p in [a5, spec(PaperSize::named("Letter").unwrap(), Orientation::Portrait)] {
+            let m = p.largest_margin_mm().unwrap();
+            assert!(PaperSpec { margin_mm: m, ..p.clone() }.check().is_ok());
+            assert!(PaperSpec { margin_mm: m + 0.1, ..p.clone() }.check().is_err());
+        }
     }
 }

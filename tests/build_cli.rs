@@ -272,6 +272,12 @@ fn exit_codes_follow_main_rs() {
 #[test]
 fn build_of_a_kit_without_sheets_is_refused_and_writes_nothing() {
     assert_build_refused("pieces_only.toml", "no [[sheets]]");
+    // Every kind is offered, not only the first two (issue 12 cleanup), and
+    // build points at `check` for the pieces.
+    for kind in raysheet::sheets::SheetKind::ALL {
+        assert_build_refused("pieces_only.toml", &format!("\"{}\"", kind.as_str()));
+    }
+    assert_build_refused("pieces_only.toml", "`raysheet check KIT` lists them");
 }
 
 /// Runaway output is refused before any layout: a curved face of 1000 km

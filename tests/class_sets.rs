@@ -425,7 +425,7 @@ fn every_ray_in_the_answer_file_carries_the_letter_printed_beside_it() {
     let templates = Templates::shipped().unwrap();
     let mut seen = 0;
     for (plans, sheets) in cp.plans.iter().zip(json["sheets"].as_array().unwrap().chunks(kit.sheets.len())) {
-        let set = layout::layout(&kit.title, plans, &paper, &templates);
+        let set = layout::layout(&kit.title, plans, &paper, &templates).expect("the text fits");
         for (page, sheet) in set.sheets.pages.iter().zip(sheets) {
             let text = dump(&raysheet::scene::Scene { title: String::new(), pages: vec![page.clone()] });
             for ray in sheet["rays"].as_array().unwrap() {
@@ -449,7 +449,7 @@ fn names_are_printed_exactly_on_the_sheets() {
     let templates = Templates::shipped().unwrap();
     let out = build_class(&kit, &cp, &paper, Formats { pdf: false, svg: true }).unwrap();
     for (g, (name, plans)) in names.iter().zip(&cp.plans).enumerate() {
-        let set = layout::layout(&kit.title, plans, &paper, &templates);
+        let set = layout::layout(&kit.title, plans, &paper, &templates).expect("the text fits");
         // The scene dump quotes text with Rust's Debug, which keeps Ø, å and &.
         for scene in [&set.sheets, &set.keys] {
             assert!(dump(scene).contains(&format!("{name:?}")), "{name} not on the pages");

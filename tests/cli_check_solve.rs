@@ -462,6 +462,12 @@ fn check_silent_about_what_build_refuses() {
             "{kit}: {text}"
         );
     }
+    // `check` itself does not tell the teacher to run `check`, and offers every kind.
+    let text = stdout(&raysheet(&["check", "pieces_only.toml"], dir.path()));
+    assert!(!text.contains("raysheet check"), "{text}");
+    for kind in raysheet::sheets::SheetKind::ALL {
+        assert!(text.contains(&format!("\"{}\"", kind.as_str())), "{kind:?}: {text}");
+    }
     let out = raysheet(&["check", "sheets_halfdisc.toml"], dir.path());
     assert!(!stdout(&out).contains("would refuse"), "{}", stdout(&out));
 }

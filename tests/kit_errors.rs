@@ -714,6 +714,27 @@ fn margin_too_large_or_negative() {
     }
 }
 
+/// The hint worked the largest margin out from the paper's width alone: on A5
+/// (148 × 210 mm) it said "up to 24 mm", (148 − 100) / 2, and 20 mm was still
+/// refused. Under the 15 mm header, 8 mm caution, 58 mm text and 56 mm scale
+/// bands, the 3 mm gap and a 40 mm drawing, 210 − 2m ≥ 180 gives 15 mm.
+#[test]
+fn margin_hint_on_a5_says_the_real_limit() {
+    for bad in ["16", "24"] {
+        let text = format!("{BASE}\n[paper]\nwidth_mm = 148\nheight_mm = 210\nmargin_mm = {bad}\n");
+        let (line, col) = at(&text, &format!("= {bad}\n"));
+        let e = error(&text);
+        check(
+            &e,
+            Expect { line, col: Some(col + 2), field: "paper.margin_mm", hint: &["from 0 to 15.0 mm"] },
+        );
+        assert!(!e.to_string().contains("24.0 mm"), "{e}");
+    }
+    // 15 mm itself is accepted.
+    let ok = format!("{BASE}\n[paper]\nwidth_mm = 148\nheight_mm = 210\nmargin_mm = 15\n");
+    assert!(Lesson::from_toml(&ok, FILE).is_ok());
+}
+
 #[test]
 fn custom_paper_too_small_or_half_given() {
     let text = format!("{BASE}\n[paper]\nwidth_mm = 90\nheight_mm = 300\n");

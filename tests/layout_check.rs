@@ -433,9 +433,13 @@ fn is_tile_defect(d: &str) -> bool {
 
 /// Every defect of every page a kit makes on every paper.
 fn kit_defects(lesson: &Lesson) -> Vec<String> {
-    let t = Templates::shipped().expect("shipped templates");
+    kit_defects_with(lesson, &Templates::shipped().expect("shipped templates"), &papers())
+}
+
+/// [`kit_defects`] with the given sheet text and papers.
+fn kit_defects_with(lesson: &Lesson, t: &Templates, papers: &[PaperSpec]) -> Vec<String> {
     let mut out = Vec::new();
-    for paper in papers() {
+    for paper in papers.iter().cloned() {
         let (w, h) = paper.page_mm();
         let m = paper.margin_mm;
         let printable = Rect { min: Point::new(m, m), max: Point::new(w - m, h - m) };
@@ -449,7 +453,7 @@ fn kit_defects(lesson: &Lesson) -> Vec<String> {
             let group = plan.group.clone().map(|g| format!(" {g}")).unwrap_or_default();
             let is_lens = plan.lens().is_some();
             for role in [Role::Student, Role::Key] {
-                let pages = pages_for(&lesson.title, &plan, &paper, &t, role);
+                let pages = pages_for(&lesson.title, &plan, &paper, t, role).expect("the text fits");
                 for page in &pages {
                     let off = is_lens.then(|| setup_offset(page));
                     let tiled = pages.len() > 1;
@@ -518,6 +522,38 @@ fn report(what: &str, defects: &[String]) {
 fn the_demo_kit_lays_out_cleanly() {
     let lesson = Lesson::from_toml(DEMO_KIT, "demo").expect("demo kit");
     report("demo kit", &kit_defects(&lesson));
+}
+
+/// Issue 12, finding 8: edited template text the build accepts is set smaller
+/// or wrapped to fit its place, so it lays out as cleanly as the shipped text:
+/// a long heading, seven two-line instructions, column headings that wrap,
+/// a two-line caution, on every paper the check uses and on A5.
+#[test]
+fn templates_that_run_off_the_page_when_accepted_lay_out_cleanly() {
+    use std::collections::BTreeMap;
+    let long = "Mark where the ray leaves the face and two points on the ray beyond it, then join them with a ruler.";
+    let instructions = vec![format!("\"{long}\""); 7].join(", ");
+    let sheet = format!(
+        "heading = \"Refraction through the shape, measured\"\ninstructions = [{instructions}]\ncolumns = [\"Ray\", \"Height above the axis (mm)\", \"Where it crosses, mm from the exit face\", \"Check\"]\n"
+    );
+    let caution = ["Never look into the lamp."; 6].join(" ");
+    let common = format!(
+        "safety = \"{caution}\"\nscale_check = \"Check before use: this bar must measure 100 mm\"\nscale_check_vertical = \"this bar must measure 50 mm\"\nscale_hint = \"If not, print again at actual size (100 %, no fit to page, no scaling).\"\n"
+    );
+    let mut overrides = BTreeMap::new();
+    for name in raysheet::layout::TEMPLATE_FILES {
+        let text = if *name == "common.toml" { common.clone() } else { sheet.clone() };
+        overrides.insert(name.to_string(), (format!("mine/{name}"), text));
+    }
+    let t = Templates::with_overrides(&overrides).expect("the edited text parses");
+    let mut papers = papers();
+    papers.push(PaperSpec {
+        size: PaperSize::custom(148.0, 210.0),
+        orientation: Orientation::Auto,
+        margin_mm: 10.0,
+    });
+    let lesson = Lesson::from_toml(DEMO_KIT, "demo").expect("demo kit");
+    report("demo kit with edited templates", &kit_defects_with(&lesson, &t, &papers));
 }
 
 #[test]

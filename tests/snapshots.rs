@@ -41,6 +41,7 @@ fn demo_set() -> raysheet::layout::SheetSet {
     let kit = Lesson::from_toml(DEMO_KIT, "demo").expect("demo kit");
     let plans = plan_lesson(&kit, &kit.paper);
     layout(&kit.title, &plans, &kit.paper, &Templates::shipped().expect("templates"))
+        .expect("the shipped text fits")
 }
 
 #[test]

@@ -28,6 +28,15 @@ fuzz_target!(|data: &[u8]| {
     };
     let kit = Lesson::from_toml(demo::DEMO_KIT, demo::DEMO_NAME).expect("the demo kit is valid");
     let plans = plan_lesson(&kit, &kit.paper);
-    let set = layout(&kit.title, &plans, &kit.paper, &templates);
+    let set = match layout(&kit.title, &plans, &kit.paper, &templates) {
+        Ok(set) => set,
+        Err(e) => {
+            // Text that cannot fit is refused on one line, naming the file.
+            let e = e.to_string();
+            assert!(e.starts_with(&format!("mine/{name}:")), "{e}");
+            assert!(!e.contains('\n'), "a message over several lines: {e:?}");
+            return;
+        }
+    };
     let _ = render_pdf(&set.sheets);
 });

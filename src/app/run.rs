@@ -175,6 +175,8 @@ fn build(job: BuildJob) -> Result<Writing, Failure> {
     let files = files.map_err(|e| match e {
         // A number no check caught is raysheet's fault, not the kit's: exit 1.
         BuildError::Render(RenderError::NotFinite { .. }) => Failure::Other(e.to_string()),
+        // `check` prints the same refusal as a warning beside the piece list; here, point to it.
+        BuildError::Empty => Failure::Input(format!("{e} (`raysheet check KIT` lists them)")),
         _ => Failure::Input(e.to_string()),
     })?;
     Ok(Writing { dir, files, force, warnings, what: Written::Build })

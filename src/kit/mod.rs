@@ -695,9 +695,13 @@ impl Validator<'_> {
         if let Some(m) = &raw.margin_mm {
             spec.margin_mm = *m.get_ref();
             if let Err(msg) = spec.check() {
-                let most = ((spec.size.width_mm - crate::paper::MIN_PRINTABLE_MM) / 2.0).max(0.0);
-                let hint =
-                    format!("give a margin from 0 to {most:.1} mm on this paper (10 mm suits most printers)");
+                let hint = match spec.largest_margin_mm() {
+                    Some(most) => format!(
+                        "give a margin from 0 to {most:.1} mm on this paper and orientation (10 mm suits most printers)"
+                    ),
+                    None => "this paper is too small for a sheet even with no margin; give larger paper"
+                        .to_string(),
+                };
                 return self.err(m.span(), "paper.margin_mm".into(), msg, &hint);
             }
         }

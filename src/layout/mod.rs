@@ -3,11 +3,15 @@
 //! scale checks, the safety caution and, on keys, the answers and the
 //! aberration plot. Never re-traces rays for answers, never writes bytes.
 
+pub mod fit;
 mod summary;
 mod templates;
 
+pub use fit::TextFitError;
 pub use summary::summary_scene;
 pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_template};
+
+use fit::Misfit;
 
 use crate::draw::{Drawing, leading, text, wrap};
 use crate::geom::{Point, Vec2};
@@ -148,15 +152,38 @@ pub struct SheetSet {
     pub keys: Scene,
 }
 
-/// Lays out every plan as a student sheet and a key.
-pub fn layout(kit_title: &str, plans: &[SheetPlan], paper: &PaperSpec, t: &Templates) -> SheetSet {
+/// Lays out every plan as a student sheet and a key. Template text is set at
+/// the largest size that fits its room (see [`fit`]); text that cannot fit
+/// even at the smallest size is refused with the template file's line.
+pub fn layout(
+    kit_title: &str,
+    plans: &[SheetPlan],
+    paper: &PaperSpec,
+    t: &Templates,
+) -> Result<SheetSet, TextFitError> {
     let mut sheets = Scene { title: format!("{kit_title}: student sheets"), pages: Vec::new() };
     let mut keys = Scene { title: format!("{kit_title}: answer keys"), pages: Vec::new() };
     for p in plans {
-        sheets.pages.extend(pages_for(kit_title, p, paper, t, Role::Student));
-        keys.pages.extend(pages_for(kit_title, p, paper, t, Role::Key));
+        sheets.pages.extend(pages_for(kit_title, p, paper, t, Role::Student)?);
+        keys.pages.extend(pages_for(kit_title, p, paper, t, Role::Key)?);
     }
-    SheetSet { sheets, keys }
+    Ok(SheetSet { sheets, keys })
+}
+
+/// A misfit located in its template file, with the paper it was measured on.
+fn locate(m: Misfit, t: &Templates, paper: &PaperSpec, rg: &Regions) -> TextFitError {
+    let place = if m.file == "common.toml" {
+        t.common.places.of(&m.field)
+    } else {
+        t.sheet(&m.file).places.of(&m.field)
+    };
+    let turn = if rg.page.0 > rg.page.1 { "landscape" } else { "portrait" };
+    TextFitError(format!(
+        "{place}: {} (measured on {} paper in {turn}, {:.0} mm printable across); the text would run off its place on the page",
+        m.why,
+        paper.size.name,
+        rg.printable.width()
+    ))
 }
 
 fn sheet_text<'a>(p: &SheetPlan, t: &'a Templates) -> &'a templates::SheetText {
@@ -169,10 +196,24 @@ pub fn page_stem(p: &SheetPlan, role: Role) -> String {
     format!("{kind}-{:02}", p.number)
 }
 
-/// The pages of one plan (several when tiled).
-pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Templates, role: Role) -> Vec<Page> {
+/// The pages of one plan (several when tiled), or the template text that
+/// cannot fit on this paper.
+pub fn pages_for(
+    kit_title: &str,
+    p: &SheetPlan,
+    paper: &PaperSpec,
+    t: &Templates,
+    role: Role,
+) -> Result<Vec<Page>, TextFitError> {
     let paper = &paper_for(p, paper);
     let rg = regions(paper);
+    let at = |m: Misfit| locate(m, t, paper, &rg);
+    // Every page of the plan has the same header, text block, side block and
+    // caution text, so their fit is settled once, before the tiles.
+    let head = header_text(p, &rg, t).map_err(at)?;
+    let block = text_block(p, &rg.text_block, t, role).map_err(at)?;
+    let labels = scale_labels(&rg.side_block, t).map_err(at)?;
+    let foot = caution(&rg.caution, t).map_err(at)?;
     let s = p.setup();
     let length = s.length();
     let height = s.height();
@@ -220,21 +261,21 @@ pub fn pages_for(kit_title: &str, p: &SheetPlan, paper: &PaperSpec, t: &Template
             if tiling.pages() > 1 {
                 tile_items.extend(join_marks(p, &tiling, &win));
             }
-            let mut page_items = header(kit_title, p, &rg, t, role, (n, tiling));
+            let mut page_items = header(kit_title, p, &rg, &head, role, (n, tiling));
             page_items.push(Item::Group { clip: win, offset: Vec2::new(ox, oy), items: tile_items });
             if n == 0 {
-                page_items.extend(text_block(p, &rg.text_block, t, role));
+                page_items.extend(block.iter().cloned());
             } else {
                 page_items.extend(tile_note(n, tiling, &rg.text_block));
             }
-            page_items.extend(side_block(p, &rg.side_block, t, role, (n, tiling)));
-            page_items.extend(caution(&rg.caution, t));
+            page_items.extend(side_block(p, &rg.side_block, &labels, role, (n, tiling)));
+            page_items.extend(foot.iter().cloned());
             let stem = page_stem(p, role);
             let name = if tiling.pages() > 1 { format!("{stem}-tile{}", n + 1) } else { stem };
             pages.push(Page { width_mm: rg.page.0, height_mm: rg.page.1, name, items: page_items });
         }
     }
-    pages
+    Ok(pages)
 }
 
 /// Join marks in the overlap between tiles, in the sheet frame: a cross in a
@@ -263,19 +304,87 @@ fn join_marks(p: &SheetPlan, tiling: &Tiling, win: &Rect) -> Vec<Item> {
     out
 }
 
+/// The identity box's lines (group, and variant code or sheet number), their
+/// size and the box, top right of the printable area.
+fn identity_box(p: &SheetPlan, rg: &Regions) -> (Vec<String>, f64, Rect) {
+    let top = rg.printable.max.y;
+    let left = rg.printable.min.x;
+    let right = rg.printable.max.x;
+    let mut lines = Vec::new();
+    if let Some(g) = &p.group {
+        lines.push(g.clone());
+    }
+    lines.push(match &p.variant {
+        Some(v) => format!("variant {v}"),
+        None => format!("sheet {}", p.number),
+    });
+    // A long group name is set smaller so the box leaves room for the heading,
+    // and on narrow paper (A5) also wrapped to two lines at 7 pt.
+    let widest = |lines: &[String], size: f64| {
+        lines.iter().map(|l| crate::font::text_width_mm(l, size, Weight::Bold)).fold(0.0, f64::max)
+    };
+    let pw = right - left;
+    let box_pt = if widest(&lines, 10.0) <= 0.35 * pw {
+        10.0
+    } else if widest(&lines, 8.0) <= 0.3 * pw || p.group.is_none() {
+        8.0
+    } else {
+        let group = wrap(&lines[0], 7.0, Weight::Bold, 0.28 * pw);
+        if group.len() <= 2 {
+            lines.splice(0..1, group);
+        }
+        7.0
+    };
+    let wmax = widest(&lines, box_pt);
+    let bx = Rect { min: Point::new(right - wmax - 6.0, top - 12.5), max: Point::new(right, top) };
+    (lines, box_pt, bx)
+}
+
+/// The heading line and its size: the largest of [`fit::HEADING_PT`] that fits
+/// left of the identity box, or the template's heading refused.
+fn header_text(p: &SheetPlan, rg: &Regions, t: &Templates) -> Result<(String, f64), Misfit> {
+    let heading = &sheet_text(p, t).heading;
+    let (_, _, bx) = identity_box(p, rg);
+    let suffix = format!(": sheet {}", p.number);
+    let line = format!("{heading}{suffix}");
+    let room = bx.min.x - 3.0 - rg.printable.min.x;
+    match fit::one_line(&line, &fit::HEADING_PT, Weight::Bold, room) {
+        Ok(pt) => Ok((line, pt)),
+        Err(_) => {
+            let floor = fit::HEADING_PT[fit::HEADING_PT.len() - 1];
+            let suffix_mm = crate::font::text_width_mm(&suffix, floor, Weight::Bold);
+            Err(Misfit {
+                file: p.view().template().to_string(),
+                field: "heading".into(),
+                why: format!(
+                    "\"{}\" ({} characters) is {:.0} mm wide at {floor} pt, the smallest heading size, and the header has {:.0} mm left of the sheet-number box for it (after \"{suffix}\"); shorten it to about {} characters",
+                    fit::quote(heading, 40),
+                    heading.chars().count(),
+                    crate::font::text_width_mm(heading, floor, Weight::Bold),
+                    (room - suffix_mm).max(0.0),
+                    fit::chars_that_fit(heading, floor, Weight::Bold, room - suffix_mm)
+                ) + &match &p.group {
+                    Some(g) => {
+                        format!(" (the box holds the group name \"{g}\": a shorter one leaves more room)")
+                    }
+                    None => String::new(),
+                },
+            })
+        }
+    }
+}
+
 fn header(
     kit_title: &str,
     p: &SheetPlan,
     rg: &Regions,
-    t: &Templates,
+    heading: &(String, f64),
     role: Role,
     tile: (usize, Tiling),
 ) -> Vec<Item> {
     let top = rg.printable.max.y;
     let left = rg.printable.min.x;
-    let right = rg.printable.max.x;
     let mut items = Vec::new();
-    let heading = &sheet_text(p, t).heading;
     let role_word = match role {
         Role::Student => "Student sheet",
         Role::Key => "ANSWER KEY (teacher's copy)",
@@ -290,21 +399,8 @@ fn header(
         String::new()
     };
     // The identity box: group and variant code (or the sheet number).
-    let mut lines = Vec::new();
-    if let Some(g) = &p.group {
-        lines.push(g.clone());
-    }
-    lines.push(match &p.variant {
-        Some(v) => format!("variant {v}"),
-        None => format!("sheet {}", p.number),
-    });
-    // A long group name is set smaller so the box leaves room for the heading.
-    let widest = |size: f64| {
-        lines.iter().map(|l| crate::font::text_width_mm(l, size, Weight::Bold)).fold(0.0, f64::max)
-    };
-    let box_pt = if widest(10.0) > 0.35 * (right - left) { 8.0 } else { 10.0 };
-    let wmax = widest(box_pt);
-    let bx = Rect { min: Point::new(right - wmax - 6.0, top - 12.5), max: Point::new(right, top) };
+    let (lines, box_pt, bx) = identity_box(p, rg);
+    let right = rg.printable.max.x;
     items.push(Item::Box { rect: bx, fill: None, stroke: Some(Stroke::solid(0.4)) });
     let n = lines.len() as f64;
     let step = box_pt * 0.46;
@@ -312,14 +408,9 @@ fn header(
         let y = top - 6.25 + (n - 1.0) * step / 2.0 - i as f64 * step - box_pt * 0.13;
         items.push(text(Point::new(right - 3.0, y), l, box_pt, Weight::Bold, Anchor::End));
     }
-    // The heading at the largest size from 13 pt down to 9 pt that fits left of the box.
-    let heading_line = format!("{heading}: sheet {}", p.number);
-    let room = bx.min.x - 3.0 - left;
-    let heading_pt = [13.0, 12.0, 11.0, 10.0, 9.0]
-        .into_iter()
-        .find(|&pt| crate::font::text_width_mm(&heading_line, pt, Weight::Bold) <= room)
-        .unwrap_or(9.0);
-    items.push(text(Point::new(left, top - 5.0), &heading_line, heading_pt, Weight::Bold, Anchor::Start));
+    // The heading at the largest size from 13 pt down to 8 pt that fits left of the box.
+    let (heading_line, heading_pt) = heading;
+    items.push(text(Point::new(left, top - 5.0), heading_line, *heading_pt, Weight::Bold, Anchor::Start));
     // The subtitle fits left of the identity box: 8 pt, else two lines of 7 pt.
     let subtitle = format!(
         "{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}",
@@ -347,22 +438,26 @@ fn header(
     items
 }
 
-fn caution(r: &Rect, t: &Templates) -> Vec<Item> {
-    let lines = wrap(&t.common.safety, 7.0, Weight::Regular, r.width());
+fn caution(r: &Rect, t: &Templates) -> Result<Vec<Item>, Misfit> {
+    let b = fit::caution(&t.common.safety, r.width()).map_err(|why| Misfit {
+        file: "common.toml".into(),
+        field: "safety".into(),
+        why,
+    })?;
     let mut out = Vec::new();
-    for (i, l) in lines.iter().take(2).enumerate() {
-        let y = r.max.y - 3.0 - i as f64 * leading(7.0);
+    for (i, l) in b.lines.iter().enumerate() {
+        let y = r.max.y - 3.0 - i as f64 * leading(b.size_pt);
         out.push(Item::Text {
             at: Point::new(r.min.x, y),
             text: l.clone(),
-            size_pt: 7.0,
+            size_pt: b.size_pt,
             weight: Weight::Regular,
             anchor: Anchor::Start,
             rotate_deg: 0.0,
             gray: 0.15,
         });
     }
-    out
+    Ok(out)
 }
 
 fn fill(template: &str, p: &SheetPlan) -> String {
@@ -370,34 +465,53 @@ fn fill(template: &str, p: &SheetPlan) -> String {
     template.replace("{piece}", &piece).replace("{entry}", &p.view().entry_words())
 }
 
-fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
+fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<Item>, Misfit> {
     let st = sheet_text(p, t);
+    let file = p.view().template();
     let mut out = Vec::new();
     let mut y = r.max.y - 3.0;
-    let (lines, size): (Vec<String>, f64) = match role {
-        Role::Student => (
-            st.instructions
-                .iter()
-                .flat_map(|l| wrap(&fill(l, p), BODY_PT, Weight::Regular, r.width()))
-                .collect(),
-            BODY_PT,
-        ),
-        Role::Key => (
-            p.view().key_lines().iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(),
-            6.8,
-        ),
+    let rows_text = p.view().table_rows(role == Role::Key);
+    let rows = rows_text.len() + 1;
+    let widths = p.view().table_widths();
+    // Room for each column heading: the column less 1 mm either side.
+    let head_room: Vec<f64> = widths.iter().map(|f| f * r.width() - 2.0).collect();
+    let column_error = |(j, why): (usize, String)| Misfit {
+        file: file.to_string(),
+        field: format!("columns[{}]", j + 1),
+        why,
     };
+    // Whether a heading wraps does not depend on the table's size: only on the smallest size.
+    let two_line_head =
+        fit::column_heads(&st.columns, &head_room, fit::FLOOR_PT).map_err(column_error)?.wrapped();
+    let head_min = if two_line_head { fit::two_line_row_mm() } else { fit::MIN_ROW_MM };
+    let (lines, size): (Vec<String>, f64) =
+        match role {
+            Role::Student => {
+                let filled: Vec<String> = st.instructions.iter().map(|l| fill(l, p)).collect();
+                let table_mm = head_min + (rows - 1) as f64 * fit::MIN_ROW_MM;
+                let b = fit::paragraphs(&filled, r.width(), r.height(), table_mm).map_err(|(i, why)| {
+                    Misfit { file: file.to_string(), field: format!("instructions[{}]", i + 1), why }
+                })?;
+                (b.lines, b.size_pt)
+            }
+            Role::Key => (
+                p.view().key_lines().iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(),
+                6.8,
+            ),
+        };
     let lead = leading(size);
     for l in &lines {
         out.push(text(Point::new(r.min.x, y), l, size, Weight::Regular, Anchor::Start));
         y -= lead;
     }
     // The measurement table.
-    let rows_text = p.view().table_rows(role == Role::Key);
-    let rows = rows_text.len() + 1;
     let avail = y - r.min.y - 1.0;
-    let row_h = (avail / rows as f64).clamp(3.6, 6.0);
-    let widths = p.view().table_widths();
+    let row_h = if two_line_head {
+        ((avail - head_min) / (rows - 1).max(1) as f64).clamp(fit::MIN_ROW_MM, 6.0)
+    } else {
+        (avail / rows as f64).clamp(fit::MIN_ROW_MM, 6.0)
+    };
+    let head_h = if two_line_head { head_min.max(row_h) } else { row_h };
     let mut x = r.min.x;
     let xs: Vec<f64> = widths
         .iter()
@@ -409,26 +523,26 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
         .collect();
     let top = y + 0.8;
     let stroke = Stroke::solid(0.2);
+    // The heading row (taller when a heading wraps), then the data rows.
+    let row_top = |k: usize| if k == 0 { top } else { top - head_h - (k - 1) as f64 * row_h };
     for k in 0..=rows {
-        let yy = top - k as f64 * row_h;
+        let yy = row_top(k);
         out.push(Item::Line { from: Point::new(r.min.x, yy), to: Point::new(r.max.x, yy), stroke });
     }
     for &xx in xs.iter().chain(std::iter::once(&r.max.x)) {
-        out.push(Item::Line {
-            from: Point::new(xx, top),
-            to: Point::new(xx, top - rows as f64 * row_h),
-            stroke,
-        });
+        out.push(Item::Line { from: Point::new(xx, top), to: Point::new(xx, row_top(rows)), stroke });
     }
-    let cell = |k: usize| top - (k as f64 + 1.0) * row_h + row_h * 0.3;
-    let tsize = if row_h < 4.4 { 6.5 } else { 7.5 };
-    for (j, c) in st.columns.iter().enumerate().take(4) {
-        let w = (widths[j] * r.width() - 2.0).max(5.0);
-        let mut label = c.clone();
-        while crate::font::text_width_mm(&label, tsize, Weight::Bold) > w && label.chars().count() > 3 {
-            label.pop();
+    let cell = |k: usize| row_top(k + 1) + row_h * 0.3;
+    let tsize = if row_h < 4.4 { fit::FLOOR_PT } else { 7.5 };
+    // Column headings at the table's size, or smaller, or on two lines; never cut.
+    let heads = fit::column_heads(&st.columns, &head_room, tsize).map_err(column_error)?;
+    let head_lead = leading(heads.size_pt);
+    for (j, head) in heads.lines.iter().enumerate().take(xs.len()) {
+        // The last line where a one-line heading sits, earlier lines above it.
+        for (i, l) in head.iter().enumerate() {
+            let yy = row_top(1) + head_h.min(row_h) * 0.3 + (head.len() - 1 - i) as f64 * head_lead;
+            out.push(text(Point::new(xs[j] + 1.0, yy), l, heads.size_pt, Weight::Bold, Anchor::Start));
         }
-        out.push(text(Point::new(xs[j] + 1.0, cell(0)), &label, tsize, Weight::Bold, Anchor::Start));
     }
     for (k, row) in rows_text.iter().enumerate() {
         let yy = cell(k + 1);
@@ -437,7 +551,7 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Vec<Item> {
             out.push(text(Point::new(xs[j] + 1.0, yy), cell_text, tsize, weight, Anchor::Start));
         }
     }
-    out
+    Ok(out)
 }
 
 fn tile_note(n: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
@@ -453,13 +567,15 @@ fn tile_note(n: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
         "The instructions and the table are on tile 1. The map on the right shows how the tiles join."
             .to_string(),
     ];
+    // Wrapped to the text block: on A5 one line is wider than the page's 128 mm.
     lines
         .iter()
+        .flat_map(|l| wrap(l, BODY_PT, Weight::Regular, r.width()))
         .enumerate()
         .map(|(i, l)| {
             text(
                 Point::new(r.min.x, r.max.y - 3.0 - i as f64 * leading(BODY_PT)),
-                l,
+                &l,
                 BODY_PT,
                 Weight::Regular,
                 Anchor::Start,
@@ -468,7 +584,61 @@ fn tile_note(n: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
         .collect()
 }
 
-fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, Tiling)) -> Vec<Item> {
+/// The scale bars' three labels at their sizes: (text, pt) for the 100 mm
+/// bar's label, the hint under it and the 50 mm bar's label.
+struct ScaleLabels {
+    across: (String, f64),
+    hint: (String, f64),
+    up: (String, f64),
+}
+
+/// Room for the horizontal bar's label and hint: from the bar's start to
+/// 3 mm short of the vertical bar, whose ticks and turned label sit at the right.
+fn label_room(r: &Rect) -> f64 {
+    (r.max.x - 6.0) - (r.min.x + 1.0)
+}
+
+/// The 50 mm bar's label runs along it, turned: it may be as long as the bar.
+const UP_LABEL_MM: f64 = 50.0;
+
+fn scale_labels(r: &Rect, t: &Templates) -> Result<ScaleLabels, Misfit> {
+    let c = &t.common;
+    let fit = |field: &str, s: &str, sizes: &[f64], weight: Weight, room: f64, place: &str| {
+        fit::one_line(s, sizes, weight, room).map(|pt| (s.to_string(), pt)).map_err(|why| Misfit {
+            file: "common.toml".into(),
+            field: field.into(),
+            why: format!("{place}, {why}"),
+        })
+    };
+    Ok(ScaleLabels {
+        across: fit(
+            "scale_check",
+            &c.scale_check,
+            &fit::SMALL_PT,
+            Weight::Bold,
+            label_room(r),
+            "over the 100 mm scale bar",
+        )?,
+        hint: fit(
+            "scale_hint",
+            &c.scale_hint,
+            &[fit::FLOOR_PT],
+            Weight::Regular,
+            label_room(r),
+            "under the 100 mm scale bar",
+        )?,
+        up: fit(
+            "scale_check_vertical",
+            &c.scale_check_vertical,
+            &fit::SMALL_PT,
+            Weight::Bold,
+            UP_LABEL_MM,
+            "along the 50 mm scale bar",
+        )?,
+    })
+}
+
+fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, tile: (usize, Tiling)) -> Vec<Item> {
     let mut out = Vec::new();
     // Scale checks: 100 mm across at the bottom, 50 mm up at the right.
     let bar = Stroke::solid(0.35);
@@ -484,8 +654,8 @@ fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, 
             stroke: Stroke::solid(0.2),
         });
     }
-    out.push(text(Point::new(x0, y + 3.6), &t.common.scale_check, 7.0, Weight::Bold, Anchor::Start));
-    out.push(text(Point::new(x0, y - 3.6), &t.common.scale_hint, 6.5, Weight::Regular, Anchor::Start));
+    out.push(text(Point::new(x0, y + 3.6), &labels.across.0, labels.across.1, Weight::Bold, Anchor::Start));
+    out.push(text(Point::new(x0, y - 3.6), &labels.hint.0, labels.hint.1, Weight::Regular, Anchor::Start));
     let vx = r.max.x - 3.0;
     let vy0 = r.min.y + 4.0;
     out.push(Item::Line { from: Point::new(vx, vy0), to: Point::new(vx, vy0 + 50.0), stroke: bar });
@@ -499,8 +669,8 @@ fn side_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role, tile: (usize, 
     }
     out.push(Item::Text {
         at: Point::new(vx - 3.0, vy0 + 25.0),
-        text: t.common.scale_check_vertical.clone(),
-        size_pt: 7.0,
+        text: labels.up.0.clone(),
+        size_pt: labels.up.1,
         weight: Weight::Bold,
         anchor: Anchor::Middle,
         rotate_deg: 90.0,

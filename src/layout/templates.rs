@@ -12,6 +12,20 @@ pub struct SheetText {
     pub instructions: Vec<String>,
     /// Column headings of the measurement table.
     pub columns: Vec<String>,
+    /// Where each field was written, for errors: see [`Places`].
+    pub places: Places,
+}
+
+/// Where a template's fields were written: `FILE:LINE:COLUMN: field `F``,
+/// by field name (`heading`, `instructions[2]`, `columns[4]`, `safety`, …).
+#[derive(Debug, Clone, Default)]
+pub struct Places(std::collections::BTreeMap<String, String>);
+
+impl Places {
+    /// The start of an error about `field`: file, line, column and field name.
+    pub fn of(&self, field: &str) -> String {
+        self.0.get(field).cloned().unwrap_or_else(|| format!("field `{field}`"))
+    }
 }
 
 /// Text printed on every sheet.
@@ -25,6 +39,8 @@ pub struct CommonText {
     pub scale_check_vertical: String,
     /// What to do if a bar is wrong.
     pub scale_hint: String,
+    /// Where each field was written, for errors.
+    pub places: Places,
 }
 
 /// All templates, parsed.
@@ -86,8 +102,13 @@ impl Source<'_> {
     }
 
     fn error(&self, span: &std::ops::Range<usize>, field: &str, msg: &str) -> String {
+        format!("{}: {msg}", self.place(span, field))
+    }
+
+    /// `NAME:LINE:COLUMN: field `F``.
+    fn place(&self, span: &std::ops::Range<usize>, field: &str) -> String {
         let (line, col) = self.line_col(span.start);
-        format!("{}:{line}:{col}: field `{field}`: {msg}", self.shown)
+        format!("{}:{line}:{col}: field `{field}`", self.shown)
     }
 
     fn parse<T: for<'de> Deserialize<'de>>(&self) -> Result<T, String> {
@@ -174,8 +195,21 @@ fn check_sheet(src: &Source<'_>) -> Result<SheetText, String> {
     for (i, c) in columns.iter().enumerate() {
         src.printable(c, &format!("columns[{}]", i + 1))?;
     }
+    let mut places = std::collections::BTreeMap::new();
+    places.insert("heading".to_string(), src.place(&t.heading.span(), "heading"));
+    for (list, v) in [("instructions", lines), ("columns", columns)] {
+        for (i, l) in v.iter().enumerate() {
+            let field = format!("{list}[{}]", i + 1);
+            places.insert(field.clone(), src.place(&l.span(), &field));
+        }
+    }
     let text = |v: &[Spanned<String>]| v.iter().map(|s| s.get_ref().clone()).collect();
-    Ok(SheetText { heading: t.heading.into_inner(), instructions: text(lines), columns: text(columns) })
+    Ok(SheetText {
+        heading: t.heading.get_ref().clone(),
+        instructions: text(lines),
+        columns: text(columns),
+        places: Places(places),
+    })
 }
 
 fn check_common(src: &Source<'_>) -> Result<CommonText, String> {
@@ -188,7 +222,17 @@ fn check_common(src: &Source<'_>) -> Result<CommonText, String> {
     ] {
         src.printable(v, field)?;
     }
+    let places = [
+        ("safety", &c.safety),
+        ("scale_check", &c.scale_check),
+        ("scale_check_vertical", &c.scale_check_vertical),
+        ("scale_hint", &c.scale_hint),
+    ]
+    .into_iter()
+    .map(|(f, v)| (f.to_string(), src.place(&v.span(), f)))
+    .collect();
     Ok(CommonText {
+        places: Places(places),
         safety: c.safety.into_inner(),
         scale_check: c.scale_check.into_inner(),
         scale_check_vertical: c.scale_check_vertical.into_inner(),

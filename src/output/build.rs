@@ -39,6 +39,8 @@ pub enum BuildError {
     TooLarge(String),
     /// The kit asks for no sheets.
     Empty,
+    /// Edited template text that cannot fit its place on the page.
+    TextFit(layout::TextFitError),
 }
 
 impl std::fmt::Display for BuildError {
@@ -46,15 +48,27 @@ impl std::fmt::Display for BuildError {
         match self {
             BuildError::Render(e) => write!(f, "{e}"),
             BuildError::Templates(e) | BuildError::TooLarge(e) => write!(f, "{e}"),
-            BuildError::Empty => write!(
-                f,
-                "the kit has no [[sheets]], so there is nothing to print; add a [[sheets]] entry (kind = \"curved-face\" or \"focal\", piece = \"…\"), or use `raysheet check` to see its pieces"
-            ),
+            BuildError::TextFit(e) => write!(f, "{e}"),
+            BuildError::Empty => {
+                let kinds: Vec<String> =
+                    crate::sheets::SheetKind::ALL.iter().map(|k| format!("\"{}\"", k.as_str())).collect();
+                write!(
+                    f,
+                    "the kit has no [[sheets]], so there is nothing to print; add a [[sheets]] entry with kind = one of {} and piece = the id of one of the kit's [[pieces]]",
+                    kinds.join(", ")
+                )
+            }
         }
     }
 }
 
 impl std::error::Error for BuildError {}
+
+impl From<layout::TextFitError> for BuildError {
+    fn from(e: layout::TextFitError) -> BuildError {
+        BuildError::TextFit(e)
+    }
+}
 
 impl From<RenderError> for BuildError {
     fn from(e: RenderError) -> BuildError {
@@ -147,7 +161,7 @@ pub fn build_plans_with(
         return Err(BuildError::Empty);
     }
     preflight(kit, plans.iter(), paper)?;
-    let set = layout::layout(&kit.title, plans, paper, templates);
+    let set = layout::layout(&kit.title, plans, paper, templates)?;
     if set.sheets.pages.len() + set.keys.pages.len() > MAX_PAGES {
         return Err(BuildError::TooLarge(format!(
             "these sheets would need {} pages, more than the {MAX_PAGES} raysheet makes in one build; split the kit",
@@ -198,7 +212,7 @@ pub fn build_class_with(
     let mut all_keys = Scene { title: format!("{}: answer keys, all groups", kit.title), pages: Vec::new() };
     let mut out = Vec::new();
     for (group, plans) in class.groups.iter().zip(&class.plans) {
-        let set = layout::layout(&kit.title, plans, paper, templates);
+        let set = layout::layout(&kit.title, plans, paper, templates)?;
         let prefix = format!("groups/{}/", group.folder);
         let sheets = Scene {
             title: format!("{}: {}: student sheets", kit.title, group.name),

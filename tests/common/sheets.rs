@@ -35,6 +35,7 @@ pub fn file<'a>(outputs: &'a [Output], path: &str) -> &'a [u8] {
 /// The sheet and key scenes for `plans`, with the shipped templates.
 pub fn scenes(kit: &Kit, plans: &[SheetPlan], paper: &PaperSpec) -> layout::SheetSet {
     layout::layout(&kit.title, plans, paper, &Templates::shipped().expect("shipped templates"))
+        .expect("the shipped text fits")
 }
 
 /// The setup drawing's offset and children on a page (src/layout/mod.rs,
