@@ -534,7 +534,7 @@ fn templates_that_run_off_the_page_when_accepted_lay_out_cleanly() {
     let long = "Mark where the ray leaves the face and two points on the ray beyond it, then join them with a ruler.";
     let instructions = vec![format!("\"{long}\""); 7].join(", ");
     let sheet = format!(
-        "heading = \"Refraction through the shape, measured\"\ninstructions = [{instructions}]\ncolumns = [\"Ray\", \"Height above the axis (mm)\", \"Where it crosses, mm from the exit face\", \"Check\"]\n"
+        "heading = \"Refraction through the shape, measured\"\ninstructions = [{instructions}]\ncolumns = [\"Ray\", \"Height, mm\", \"Where it crosses, mm from the exit face\", \"Check\"]\n"
     );
     let caution = ["Never look into the lamp."; 6].join(" ");
     let common = format!(
