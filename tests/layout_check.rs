@@ -16,7 +16,7 @@
 
 use proptest::prelude::*;
 use raysheet::demo::DEMO_KIT;
-use raysheet::draw::text_box;
+use raysheet::draw::{clip_segment, text_box};
 use raysheet::geom::{Point, Vec2};
 use raysheet::kit::Groups;
 use raysheet::layout::{Role, Templates, pages_for};
@@ -81,30 +81,6 @@ fn intersect(a: &Rect, b: &Rect) -> Option<Rect> {
         max: Point::new(a.max.x.min(b.max.x), a.max.y.min(b.max.y)),
     };
     (r.min.x <= r.max.x && r.min.y <= r.max.y).then_some(r)
-}
-
-/// The part of a–b inside `r` (Liang–Barsky), if any.
-fn clip_segment(a: Point, b: Point, r: &Rect) -> Option<(Point, Point)> {
-    let (dx, dy) = (b.x - a.x, b.y - a.y);
-    let (mut t0, mut t1) = (0.0f64, 1.0f64);
-    for (p, q) in [(-dx, a.x - r.min.x), (dx, r.max.x - a.x), (-dy, a.y - r.min.y), (dy, r.max.y - a.y)] {
-        if p == 0.0 {
-            if q < 0.0 {
-                return None;
-            }
-        } else {
-            let t = q / p;
-            if p < 0.0 {
-                t0 = t0.max(t);
-            } else {
-                t1 = t1.min(t);
-            }
-            if t0 > t1 {
-                return None;
-            }
-        }
-    }
-    Some((a + (b - a) * t0, a + (b - a) * t1))
 }
 
 fn arc_points(c: Point, r: f64, start: f64, sweep: f64) -> Vec<Point> {

@@ -15,15 +15,14 @@ pub struct Placer {
     soft: Vec<(Point, Point)>,
 }
 
-fn segment_hits_rect(a: Point, b: Point, r: &Rect) -> bool {
-    // Liang–Barsky clipping: does any part of a→b lie inside r?
+/// The part of the segment a–b inside `r` (Liang–Barsky clipping), if any.
+pub fn clip_segment(a: Point, b: Point, r: &Rect) -> Option<(Point, Point)> {
     let (dx, dy) = (b.x - a.x, b.y - a.y);
-    let mut t0: f64 = 0.0;
-    let mut t1: f64 = 1.0;
+    let (mut t0, mut t1) = (0.0f64, 1.0f64);
     for (p, q) in [(-dx, a.x - r.min.x), (dx, r.max.x - a.x), (-dy, a.y - r.min.y), (dy, r.max.y - a.y)] {
         if p == 0.0 {
             if q < 0.0 {
-                return false;
+                return None;
             }
         } else {
             let t = q / p;
@@ -33,11 +32,16 @@ fn segment_hits_rect(a: Point, b: Point, r: &Rect) -> bool {
                 t1 = t1.min(t);
             }
             if t0 > t1 {
-                return false;
+                return None;
             }
         }
     }
-    true
+    Some((a + (b - a) * t0, a + (b - a) * t1))
+}
+
+/// Whether any part of a–b lies inside `r`.
+fn segment_hits_rect(a: Point, b: Point, r: &Rect) -> bool {
+    clip_segment(a, b, r).is_some()
 }
 
 /// Whether the segments a–b and c–d cross or touch.

@@ -14,7 +14,7 @@ pub mod style;
 pub mod text;
 
 pub use fan::{AngleScale, AngleTicks, ScaleNumber, Tick, TickSize, angle_ticks};
-pub use labels::{Placer, place_lines_near, place_near};
+pub use labels::{Placer, clip_segment, place_lines_near, place_near};
 pub use outline::{path_points, shape_outline};
 pub use text::{leading, text, text_box, wrap};
 
