@@ -588,9 +588,17 @@ impl Validator<'_> {
             self.loc.error(span.start, field, e.problem(), e.advice())
         };
         let piece = match shape {
-            "lens" => {
-                let front = self.face(p.front.as_ref().expect("checked"), f("front"))?;
-                let back = self.face(p.back.as_ref().expect("checked"), f("back"))?;
+            "lens" | "block" => {
+                // Lens shapes and blocks both have a thickness and a height; the
+                // faces (lens shapes only) are read first, as written in the table.
+                let faces = if shape == "lens" {
+                    Some((
+                        self.face(p.front.as_ref().expect("checked"), f("front"))?,
+                        self.face(p.back.as_ref().expect("checked"), f("back"))?,
+                    ))
+                } else {
+                    None
+                };
                 let thickness = self.length(
                     &req(&p.thickness_mm),
                     f("thickness_mm"),
@@ -600,19 +608,12 @@ impl Validator<'_> {
                 )?;
                 let height =
                     self.length(&req(&p.height_mm), f("height_mm"), "height", MAX_PIECE_MM, PIECE_WHY)?;
-                Piece::Lens(Lens::new(front, back, thickness, height, index).map_err(map_err)?)
-            }
-            "block" => {
-                let thickness = self.length(
-                    &req(&p.thickness_mm),
-                    f("thickness_mm"),
-                    "thickness",
-                    MAX_PIECE_MM,
-                    PIECE_WHY,
-                )?;
-                let height =
-                    self.length(&req(&p.height_mm), f("height_mm"), "height", MAX_PIECE_MM, PIECE_WHY)?;
-                Piece::Block(Block::new(thickness, height, index).map_err(map_err)?)
+                match faces {
+                    Some((front, back)) => {
+                        Piece::Lens(Lens::new(front, back, thickness, height, index).map_err(map_err)?)
+                    }
+                    None => Piece::Block(Block::new(thickness, height, index).map_err(map_err)?),
+                }
             }
             _ => {
                 let apex = *req(&p.apex_deg).get_ref();
