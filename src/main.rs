@@ -93,14 +93,17 @@ fn run(cli: Cli) -> Result<(), Failure> {
     match raysheet::app::run(job)? {
         Outcome::Print(text) => say(&text)?,
         Outcome::Write(w) => {
-            let written = write::write_all(&w.dir, &w.files, w.force).map_err(|e| match e {
+            let written = write::write_all(&w.dir, w.set_name(), &w.files, w.force).map_err(|e| match e {
                 write::WriteError::Refused(msg) => Failure::Input(msg),
                 write::WriteError::Io(msg) => Failure::Other(msg),
             })?;
+            for note in &written.notes {
+                tell(&format!("raysheet: note: {note}"));
+            }
             for warning in &w.warnings {
                 tell(&format!("raysheet: warning: {warning}"));
             }
-            say(&w.report(&written))?;
+            say(&w.report(&written.paths))?;
         }
     }
     Ok(())

@@ -45,6 +45,15 @@ pub struct Writing {
 }
 
 impl Writing {
+    /// Which kind of set the files are, for the folder's list of files: a
+    /// rebuild replaces the earlier files of its own kind only.
+    pub fn set_name(&self) -> &'static str {
+        match self.what {
+            Written::Build => "build",
+            Written::Templates => "templates",
+        }
+    }
+
     /// The message after writing: the files written (`written`, as the writer
     /// reports them), SVGs counted rather than listed, and the printing advice.
     pub fn report(&self, written: &[PathBuf]) -> String {
