@@ -11,10 +11,12 @@ pub struct PaperSize {
     pub height_mm: f64,
 }
 
-/// The named sizes: ISO 216 A4 210 × 297 mm and A3 297 × 420 mm; US Letter
-/// 8.5 × 11 in, Legal 8.5 × 14 in, Tabloid 11 × 17 in (1 in = 25.4 mm).
+/// The named sizes: ISO 216 A4 210 × 297 mm, A3 297 × 420 mm and A5
+/// 148 × 210 mm; US Letter 8.5 × 11 in, Legal 8.5 × 14 in, Tabloid 11 × 17 in
+/// (1 in = 25.4 mm).
 pub const NAMED_SIZES: &[(&str, f64, f64)] = &[
     ("A4", 210.0, 297.0),
+    ("A5", 148.0, 210.0),
     ("A3", 297.0, 420.0),
     ("Letter", 215.9, 279.4),
     ("Legal", 215.9, 355.6),

@@ -471,3 +471,49 @@ fn check_silent_about_what_build_refuses() {
     let out = raysheet(&["check", "sheets_halfdisc.toml"], dir.path());
     assert!(!stdout(&out).contains("would refuse"), "{}", stdout(&out));
 }
+
+/// Issue 9 ("check says, for every sheet that still tiles, how many pages it
+/// takes and which paper would fit it on one"): `check` said so for some tiled
+/// sheets (lens shapes, from the printable width) and not others (blocks and
+/// prisms). On A5 (ISO 216, 148 × 210 mm) every demo sheet tiles; `check`'s
+/// page count is what `build` then prints, for every kind, and the paper it
+/// names prints that sheet on one page.
+#[test]
+fn check_tiled_sheets_not_reported() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("demo.toml"), raysheet::demo::DEMO_KIT).unwrap();
+    let check = raysheet(&["check", "demo.toml", "--paper", "A5"], dir.path());
+    assert_code(&check, 0);
+    let text = stdout(&check);
+    let build =
+        raysheet(&["build", "demo.toml", "--out", "a5", "--paper", "A5", "--format", "svg"], dir.path());
+    assert_code(&build, 0);
+    let svgs: Vec<String> = std::fs::read_dir(dir.path().join("a5/svg"))
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    let kit = raysheet::sheets::Lesson::from_toml(raysheet::demo::DEMO_KIT, "demo.toml").unwrap();
+    for n in 1..=kit.sheets.len() {
+        let line = text
+            .lines()
+            .find(|l| l.starts_with(&format!("  sheet {n}: ")))
+            .unwrap_or_else(|| panic!("no page line for sheet {n}: {text}"));
+        let printed = svgs.iter().filter(|f| f.starts_with(&format!("sheet-{n:02}-tile"))).count();
+        assert!(printed > 1, "sheet {n} tiles on A5");
+        assert!(line.contains(&format!("tiled over {printed} pages")), "{line}");
+        // The build warns with the same words.
+        assert!(
+            stderr(&build).contains(&format!("sheet {n}: tiled over {printed} pages")),
+            "{}",
+            stderr(&build)
+        );
+        let paper = line.split("one page of ").nth(1).and_then(|r| r.split(' ').next()).expect(line);
+        let one = raysheet(
+            &["build", "demo.toml", "--out", &format!("one-{n}"), "--paper", paper, "--format", "svg"],
+            dir.path(),
+        );
+        assert_code(&one, 0);
+        let sheet = dir.path().join(format!("one-{n}/svg/sheet-{n:02}.svg"));
+        assert!(sheet.exists(), "sheet {n} on {paper} is one page");
+    }
+}

@@ -89,7 +89,7 @@ pub struct OutArgs {
 /// Paper options; each overrides the kit's `[paper]` table.
 #[derive(Args, Debug, Default)]
 pub struct PaperArgs {
-    /// Paper: A4, A3, Letter, Legal, Tabloid, or WIDTHxHEIGHT in mm (such as 250x350).
+    /// Paper: A4, A5, A3, Letter, Legal, Tabloid, or WIDTHxHEIGHT in mm (such as 250x350).
     #[arg(long)]
     pub paper: Option<String>,
     /// portrait, landscape or auto.

@@ -117,6 +117,13 @@ fn check(kit: &Lesson, paper: &PaperSpec, class: Option<ClassSetup>) -> String {
         None => preflight(kit, plans.iter(), paper),
         Some(cp) => preflight(kit, cp.plans.iter().flatten(), paper),
     };
+    if !plans.is_empty() && paper.check().is_ok() {
+        s.push('\n');
+        match &class {
+            None => s.push_str(&report::paper_report(plans.iter(), paper)),
+            Some(cp) => s.push_str(&report::paper_report(cp.plans.iter().flatten(), paper)),
+        }
+    }
     if let Err(e) = refused {
         s.push_str(&format!("\nwarning: `raysheet build` would refuse this kit: {e}\n"));
     }
@@ -158,9 +165,24 @@ fn solve(
     out
 }
 
-/// Every plan's warnings, each prefixed with its sheet number.
-fn sheet_warnings(plans: &[SheetPlan]) -> Vec<String> {
-    plans.iter().flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number))).collect()
+/// Every plan's warnings, each prefixed with its sheet number, and a word on
+/// every sheet tiled over several pages on `paper`.
+/// `all` are every plan of the build (every group's, for a class set).
+fn sheet_warnings<'a>(
+    plans: &[SheetPlan],
+    all: impl Iterator<Item = &'a SheetPlan>,
+    paper: &PaperSpec,
+) -> Vec<String> {
+    let mut w: Vec<String> = plans
+        .iter()
+        .flat_map(|p| p.warnings.iter().map(move |w| format!("sheet {}: {w}", p.number)))
+        .collect();
+    for (number, (pages, words)) in report::sheet_pages(all, paper) {
+        if pages > 1 {
+            w.push(format!("sheet {number}: {words}"));
+        }
+    }
+    w
 }
 
 /// Plans and builds every file of a build; warnings once per sheet (a class
@@ -170,13 +192,13 @@ fn build(job: BuildJob) -> Result<Writing, Failure> {
     let (files, warnings) = match class.map(|c| class_plan(&kit, &paper, c)) {
         None => {
             let plans = sheets::plan_lesson(&kit, &paper);
-            let warnings = sheet_warnings(&plans);
+            let warnings = sheet_warnings(&plans, plans.iter(), &paper);
             (build_plans_with(&kit, &plans, &paper, formats, seed_flag, &templates), warnings)
         }
         Some(cp) => {
             let mut warnings = cp.notes.clone();
             if let Some(first) = cp.plans.first() {
-                warnings.extend(sheet_warnings(first));
+                warnings.extend(sheet_warnings(first, cp.plans.iter().flatten(), &paper));
             }
             (build_class_with(&kit, &cp, &paper, formats, &templates), warnings)
         }

@@ -117,7 +117,8 @@ pub fn tiling_for(length: f64, height: f64, window: &Rect) -> Tiling {
     Tiling { columns: tiles_needed(length, window.width()), rows: tiles_needed(height, window.height()) }
 }
 
-fn tiling_on(p: &SheetPlan, paper: &PaperSpec) -> Tiling {
+/// How one plan's setup is tiled on `paper` as it is turned (see [`paper_for`]).
+pub fn tiling_on(p: &SheetPlan, paper: &PaperSpec) -> Tiling {
     let s = p.setup();
     tiling_for(s.length(), s.height(), &regions(paper).drawing)
 }

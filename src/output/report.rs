@@ -3,8 +3,10 @@
 use std::fmt::Write;
 
 use crate::kit::Kit;
+use crate::layout;
 use crate::optics::{Entry, Paraxial, Piece};
-use crate::plan::fmt2_or_none;
+use crate::paper::{NAMED_SIZES, Orientation, PaperSize, PaperSpec};
+use crate::plan::{fmt1, fmt2_or_none};
 use crate::sheets::SheetPlan;
 
 /// The pieces table: shape, sizes, index and, for lens shapes, edge thickness
@@ -104,6 +106,83 @@ pub fn check_report(kit: &Kit, plans: &[SheetPlan]) -> String {
     for p in plans {
         s.push('\n');
         s.push_str(&sheet_table(p));
+    }
+    s
+}
+
+/// How many pages each sheet takes on `paper` (the most over `plans`, which
+/// may hold several plans of one sheet: a class set's groups), with a word on
+/// each tiled sheet: its tiles and the smallest named paper that holds it on
+/// one page. Sheet number → (pages, description).
+pub fn sheet_pages<'a>(
+    plans: impl Iterator<Item = &'a SheetPlan>,
+    paper: &PaperSpec,
+) -> std::collections::BTreeMap<usize, (usize, String)> {
+    let mut worst: std::collections::BTreeMap<usize, (usize, &SheetPlan)> = std::collections::BTreeMap::new();
+    for p in plans {
+        let n = layout::pages_needed(p, paper);
+        let e = worst.entry(p.number).or_insert((n, p));
+        if n > e.0 {
+            *e = (n, p);
+        }
+    }
+    let turned = |p: &SheetPlan, on: &PaperSpec| match layout::paper_for(p, on).orientation {
+        Orientation::Portrait => "portrait",
+        _ => "landscape",
+    };
+    worst
+        .into_iter()
+        .map(|(number, (pages, p))| {
+            if pages <= 1 {
+                return (number, (pages, format!("one page ({})", turned(p, paper))));
+            }
+            let t = layout::tiling_on(p, &layout::paper_for(p, paper));
+            let setup = p.setup();
+            let mut s = format!(
+                "tiled over {pages} pages ({} across × {} down, {}) for a setup {:.0} × {:.0} mm; ",
+                t.columns,
+                t.rows,
+                turned(p, paper),
+                setup.length(),
+                setup.height()
+            );
+            // Named sizes of the paper's own family (ISO 216 A sizes, or US
+            // sizes) first, each family from the smallest up; same margin;
+            // turned as suits the sheet.
+            let iso = |n: &str| n.starts_with('A');
+            let ours = paper.size.name == "custom" || iso(&paper.size.name);
+            let mut named: Vec<PaperSize> = NAMED_SIZES.iter().filter_map(|(n, ..)| PaperSize::named(n)).collect();
+            named.sort_by(|a, b| {
+                (iso(&a.name) != ours)
+                    .cmp(&(iso(&b.name) != ours))
+                    .then((a.width_mm * a.height_mm).total_cmp(&(b.width_mm * b.height_mm)))
+            });
+            let fits = named
+                .into_iter()
+                .map(|size| PaperSpec { size, orientation: Orientation::Auto, ..paper.clone() })
+                .find(|on| on.check().is_ok() && layout::pages_needed(p, on) == 1);
+            match fits {
+                Some(on) => s.push_str(&format!("one page of {} ({}) holds it", on.size.name, turned(p, &on))),
+                None => s.push_str(
+                    "no listed paper holds it on one page (give a larger --paper WIDTHxHEIGHT, or tape the pages together at the join marks)",
+                ),
+            }
+            (number, (pages, s))
+        })
+        .collect()
+}
+
+/// The `check` report's paper section: every sheet's pages on `paper`.
+pub fn paper_report<'a>(plans: impl Iterator<Item = &'a SheetPlan>, paper: &PaperSpec) -> String {
+    let mut s = format!(
+        "Paper: {} ({:.0} × {:.0} mm), {} mm margin\n",
+        paper.size.name,
+        paper.size.width_mm,
+        paper.size.height_mm,
+        fmt1(paper.margin_mm)
+    );
+    for (number, (_, words)) in sheet_pages(plans, paper) {
+        let _ = writeln!(s, "  sheet {number}: {words}");
     }
     s
 }

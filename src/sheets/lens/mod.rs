@@ -337,15 +337,6 @@ pub fn plan_sheet_in_band(
             x_min = x_min.min(f - 15.0);
         }
     }
-    let printable = paper.page_mm().0 - 2.0 * paper.margin_mm;
-    if x_max - x_min > printable + 1e-9 {
-        warnings.push(format!(
-            "the setup is {:.0} mm long, more than the {:.0} mm printable on {} paper: it is tiled over several pages",
-            x_max - x_min,
-            printable,
-            paper.size.name
-        ));
-    }
     // Room across the axis for the traced rays inside the drawing (they may leave steeply).
     let mut y_half = a + 8.0;
     for r in &rays {
