@@ -300,7 +300,12 @@ fn a_setup_that_would_tile_over_millions_of_pages_is_refused() {
 /// 2,000-page limit for a build, is refused by the limit for one sheet.
 #[test]
 fn one_sheet_1850_pages_under_the_build_limit() {
-    assert_build_refused("sheets_one_sheet_740_pages.toml", "sheet 1 would be tiled over 740 pages");
+    // (740 pages when tiles left room for the text block on every page; 583 now
+    // that drawing pages give the drawing the whole page.)
+    assert_build_refused(
+        "sheets_one_sheet_740_pages.toml",
+        "sheet 1 would be tiled over 583 pages, more than the 20 pages raysheet prints for one sheet",
+    );
 }
 
 /// `build` of the fixture `kit` is refused before any output: exit 2, `word`

@@ -244,6 +244,13 @@ fn guide_height(s: &str) -> Option<f64> {
 }
 
 /// The defects on one page.
+/// Every text printed on a page, and whether its window cuts it.
+fn page_texts(page: &Page) -> Vec<(String, bool)> {
+    let mut flat = Flat::default();
+    flatten(&page.items, Vec2::new(0.0, 0.0), None, &mut flat);
+    flat.texts.into_iter().map(|t| (t.text, t.cut)).collect()
+}
+
 fn page_defects(page: &Page, printable: &Rect, guide_offset: Option<Vec2>) -> Vec<String> {
     let mut flat = Flat::default();
     flatten(&page.items, Vec2::new(0.0, 0.0), None, &mut flat);
@@ -374,6 +381,13 @@ fn papers() -> Vec<PaperSpec> {
             v.push(PaperSpec { size, orientation, margin_mm: 10.0 });
         }
     }
+    // A5 (ISO 216, 148 × 210 mm), turned as `auto` turns it: every demo sheet
+    // is tiled there, so the tile rules are checked on every kind.
+    v.push(PaperSpec {
+        size: PaperSize::named("A5").expect("A5"),
+        orientation: Orientation::Auto,
+        margin_mm: 10.0,
+    });
     v
 }
 
@@ -398,13 +412,9 @@ fn all_plans(lesson: &Lesson, paper: &PaperSpec) -> Vec<SheetPlan> {
     plans
 }
 
-/// Open on tiled pages, left to the tiling work (issue 9, "tiles are placed
-/// so no page holds a sliver; labels and marks are never cut by a tile
-/// edge"): a label cut by a tile's edge, or lying on a join mark, which the
-/// layout adds after the drawing has placed its labels. Every other rule
-/// holds on tiled pages too.
-fn is_tile_defect(d: &str) -> bool {
-    d.ends_with("is cut by the edge of its window") || d.contains("covers a mark")
+/// The text of a "cut by the edge of its window" defect, if it is one.
+fn cut_text(d: &str) -> Option<&str> {
+    d.strip_suffix(" is cut by the edge of its window").and_then(|r| r.split_once(": text ")).map(|(_, t)| t)
 }
 
 /// Every defect of every page a kit makes on every paper.
@@ -430,13 +440,25 @@ fn kit_defects_with(lesson: &Lesson, t: &Templates, papers: &[PaperSpec]) -> Vec
             let is_lens = plan.lens().is_some();
             for role in [Role::Student, Role::Key] {
                 let pages = pages_for(&lesson.title, &plan, &paper, t, role).expect("the text fits");
-                for page in &pages {
-                    let off = is_lens.then(|| setup_offset(page));
-                    let tiled = pages.len() > 1;
+                // Issue 9: a label cut by a tile's edge must be whole on a
+                // neighbouring page of the same sheet (tiles overlap so that
+                // it is); a label cut on every page is a defect.
+                let per_page: Vec<Vec<String>> = pages
+                    .iter()
+                    .map(|page| page_defects(page, &printable, is_lens.then(|| setup_offset(page))))
+                    .collect();
+                let whole_somewhere = |text: &str, on: usize| {
+                    pages.iter().enumerate().any(|(k, page)| {
+                        k != on && page_texts(page).iter().any(|(s, cut)| format!("{s:?}") == text && !cut)
+                    })
+                };
+                for (k, defects) in per_page.into_iter().enumerate() {
                     out.extend(
-                        page_defects(page, &printable, off)
+                        defects
                             .into_iter()
-                            .filter(|d| !(tiled && is_tile_defect(d)))
+                            .filter(|d| {
+                                !cut_text(d).is_some_and(|t| pages.len() > 1 && whole_somewhere(t, k))
+                            })
                             .map(|d| format!("{tag}{group}: {d}")),
                     );
                 }

@@ -306,19 +306,25 @@ fn a_setup_longer_than_the_page_tiles_into_the_hand_computed_page_count() {
     let plans = plan_lesson(&kit, &p);
     assert_eq!(plans.len(), 1);
     let s = plans[0].setup();
-    let window = layout::regions(&p).drawing;
+    let one_page = layout::regions(&p).drawing;
+    let window = layout::tiles::tile_regions(&p).common.drawing;
     let (w, l) = (window.width(), s.x_max - s.x_min);
     // By hand (DESIGN.md, lens maker's formula and thick lens): plano-convex
     // R = 260 mm, n = 1.50, t = 5 mm: f = R/(n − 1) = 520 mm, BFL = f − t/n =
     // 516.7 mm, so the paraxial focus is at x = 5 + 516.7 = 521.7 mm from the
     // entry vertex. The setup runs from the ray-box lead-in at x = −45 mm
     // (LEAD_IN_MM, src/plan/mod.rs) to 12 mm past the focus (TAIL_MM):
-    // L ≈ 45 + 521.7 + 12 = 578.7 mm. The window is 297 − 2 × 10 = 277 mm wide
-    // on A4 landscape (ISO 216, 10 mm margins), so L > W.
+    // L ≈ 45 + 521.7 + 12 = 578.7 mm, longer than a one-page sheet's window
+    // (277 mm: A4 landscape is 297 mm wide, ISO 216, less 10 mm margins).
     assert!((l - 578.7).abs() < 1.0, "L = {l} mm");
-    assert!((w - 277.0).abs() < 1e-9, "W = {w} mm");
+    assert!((one_page.width() - 277.0).abs() < 1e-9 && l > one_page.width());
+    // So the text goes on a cover page and the drawing on pages whose window is
+    // the printable width less the 11 mm strip for the 50 mm bar and a 1 mm gap
+    // (src/layout/tiles.rs): 277 − 12 = 265 mm.
+    assert!((w - 265.0).abs() < 1e-9, "W = {w} mm");
     // n = ⌈(L − o)/(W − o)⌉ with o = 12 mm overlap (issue 3: tiles overlap):
-    // ⌈566.7/265⌉ = ⌈2.14⌉ = 3 tiles, and one row since 2·y_half ≤ window height.
+    // ⌈566.7/253⌉ = ⌈2.24⌉ = 3 drawing pages, one row since the setup is less
+    // tall than the window; with the cover, 4 pages.
     let o = TILE_OVERLAP_MM;
     assert_eq!(o, 12.0);
     let n = ((l - o) / (w - o)).ceil() as usize;
@@ -334,8 +340,8 @@ fn a_setup_longer_than_the_page_tiles_into_the_hand_computed_page_count() {
     for name in ["sheets.pdf", "keys.pdf"] {
         let doc = load(file(&out, name));
         let ids = page_ids(&doc);
-        assert_eq!(ids.len(), n, "{name}");
-        // Never shrunk: every tile is a full A4 landscape page with a true 100 mm bar.
+        assert_eq!(ids.len(), n + 1, "{name}");
+        // Never shrunk: every page is a full A4 landscape page with a true 100 mm bar.
         for id in ids {
             let [_, _, x1, y1] = media_box(&doc, id);
             assert!((x1 - 841.890).abs() < 0.01 && (y1 - 595.276).abs() < 0.01, "{name}: {x1} × {y1} pt");
@@ -344,11 +350,16 @@ fn a_setup_longer_than_the_page_tiles_into_the_hand_computed_page_count() {
             assert!(((across[0].1.0 - across[0].0.0).abs() - 100.0).abs() < 0.01, "{name}: {across:?}");
         }
     }
-    // Neighbouring tiles show the sheet frame shifted by the window less the overlap.
+    // Issue 9 (no sliver): the drawing pages are spread evenly, each shifted
+    // from the last by (L − W)/(n − 1) = (578.7 − 265)/2 ≈ 156.9 mm, an overlap
+    // of W − 156.9 ≈ 108 mm, well over the 12 mm minimum.
     let set = scenes(&kit, &plans, &p);
-    let offsets: Vec<f64> = set.sheets.pages.iter().map(|pg| group(pg).0.x).collect();
+    let offsets: Vec<f64> = set.sheets.pages.iter().skip(1).map(|pg| group(pg).0.x).collect();
+    assert_eq!(offsets.len(), n);
+    let advance = (l - w) / (n - 1) as f64;
+    assert!((advance - 156.85).abs() < 0.6, "advance {advance}");
     for pair in offsets.windows(2) {
-        assert!(((pair[0] - pair[1]) - (w - o)).abs() < 1e-9, "tile offsets {offsets:?}");
+        assert!(((pair[0] - pair[1]) - advance).abs() < 1.0, "tile offsets {offsets:?}");
     }
 }
 

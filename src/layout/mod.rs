@@ -6,6 +6,7 @@
 pub mod fit;
 mod summary;
 mod templates;
+pub mod tiles;
 
 pub use fit::TextFitError;
 pub use summary::summary_scene;
@@ -117,10 +118,21 @@ pub fn tiling_for(length: f64, height: f64, window: &Rect) -> Tiling {
     Tiling { columns: tiles_needed(length, window.width()), rows: tiles_needed(height, window.height()) }
 }
 
-/// How one plan's setup is tiled on `paper` as it is turned (see [`paper_for`]).
+/// Whether one plan's setup fits the drawing window of a one-page sheet on `paper`.
+pub fn fits_one_page(p: &SheetPlan, paper: &PaperSpec) -> bool {
+    let s = p.setup();
+    tiling_for(s.length(), s.height(), &regions(paper).drawing).pages() == 1
+}
+
+/// How one plan's drawing is tiled on `paper` as it is turned (see
+/// [`paper_for`]): 1 × 1 when it fits a one-page sheet, else the drawing
+/// pages that follow the cover page (see [`tiles`]).
 pub fn tiling_on(p: &SheetPlan, paper: &PaperSpec) -> Tiling {
     let s = p.setup();
-    tiling_for(s.length(), s.height(), &regions(paper).drawing)
+    if fits_one_page(p, paper) {
+        return Tiling { columns: 1, rows: 1 };
+    }
+    tiling_for(s.length(), s.height(), &tiles::tile_regions(paper).common.drawing)
 }
 
 /// The paper one plan is laid out on. With `orientation = "auto"` a sheet is
@@ -136,13 +148,18 @@ pub fn paper_for(p: &SheetPlan, paper: &PaperSpec) -> PaperSpec {
     if landscape.check().is_err() {
         return portrait;
     }
-    if tiling_on(p, &portrait).pages() < tiling_on(p, &landscape).pages() { portrait } else { paper.clone() }
+    if pages_on(p, &portrait) < pages_on(p, &landscape) { portrait } else { paper.clone() }
 }
 
-/// How many pages one plan's student sheet takes (the key takes as many).
+/// Pages on `paper` turned as it is: one, or the cover and the drawing pages.
+fn pages_on(p: &SheetPlan, paper: &PaperSpec) -> usize {
+    if fits_one_page(p, paper) { 1 } else { tiling_on(p, paper).pages().saturating_add(1) }
+}
+
+/// How many pages one plan's student sheet takes (the key takes as many): one,
+/// or a cover page and the drawing pages.
 pub fn pages_needed(p: &SheetPlan, paper: &PaperSpec) -> usize {
-    let t = tiling_on(p, &paper_for(p, paper));
-    t.columns.saturating_mul(t.rows)
+    pages_on(p, &paper_for(p, paper))
 }
 
 /// The student sheets and answer keys for a set of plans.
@@ -197,8 +214,8 @@ pub fn page_stem(p: &SheetPlan, role: Role) -> String {
     format!("{kind}-{:02}", p.number)
 }
 
-/// The pages of one plan (several when tiled), or the template text that
-/// cannot fit on this paper.
+/// The pages of one plan (a cover and drawing pages when tiled, see
+/// [`tiles`]), or the template text that cannot fit on this paper.
 pub fn pages_for(
     kit_title: &str,
     p: &SheetPlan,
@@ -212,96 +229,231 @@ pub fn pages_for(
     // Every page of the plan has the same header, text block, side block and
     // caution text, so their fit is settled once, before the tiles.
     let head = header_text(p, &rg, t).map_err(at)?;
-    let block = text_block(p, &rg.text_block, t, role).map_err(at)?;
     let labels = scale_labels(&rg.side_block, t).map_err(at)?;
     let foot = caution(&rg.caution, t).map_err(at)?;
     let s = p.setup();
     let length = s.length();
     let height = s.height();
     let cy = (s.y_min + s.y_max) / 2.0;
-    let tiling = tiling_for(length, height, &rg.drawing);
-    let win = rg.drawing;
-    // Where labels may go, in the sheet frame: the window around the centred
-    // setup on a single page; the setup itself when tiled.
-    let bounds = if tiling.pages() == 1 {
+    let stem = page_stem(p, role);
+    let view = p.view();
+    if fits_one_page(p, paper) {
+        // Labels may go anywhere in the window around the centred setup.
+        let win = rg.drawing;
         let spare_x = (win.width() - length) / 2.0;
         let spare_y = win.height() / 2.0;
-        Rect {
+        let bounds = Rect {
             min: Point::new(s.x_min - spare_x + 1.0, cy - spare_y + 1.0),
             max: Point::new(s.x_max + spare_x - 1.0, cy + spare_y - 1.0),
+        };
+        let mut d: Drawing = view.student(bounds);
+        let mut items = std::mem::take(&mut d.items);
+        if role == Role::Key {
+            items.extend(view.key(&mut d, bounds));
         }
-    } else {
-        Rect { min: Point::new(s.x_min, s.y_min), max: Point::new(s.x_max, s.y_max) }
-    };
-    let view = p.view();
+        let offset =
+            Vec2::new(win.min.x + (win.width() - length) / 2.0 - s.x_min, (win.min.y + win.max.y) / 2.0 - cy);
+        let mut page_items = header(kit_title, p, &rg, &head, role, None);
+        page_items.push(Item::Group { clip: win, offset, items });
+        page_items.extend(text_block(p, &rg.text_block, t, role).map_err(at)?);
+        page_items.extend(side_block(p, &rg.side_block, &labels, role));
+        page_items.extend(foot);
+        return Ok(vec![Page { width_mm: rg.page.0, height_mm: rg.page.1, name: stem, items: page_items }]);
+    }
+    // Tiled: labels stay on the setup; the tiles' edges avoid cutting them.
+    let tr = tiles::tile_regions(paper);
+    let win = tr.common.drawing;
+    let tiling = tiling_for(length, height, &win);
+    let bounds = Rect { min: Point::new(s.x_min, s.y_min), max: Point::new(s.x_max, s.y_max) };
     let mut d: Drawing = view.student(bounds);
     let mut items = std::mem::take(&mut d.items);
+    let key_items = view.key(&mut d, bounds);
+    // The tiles are cut alike for the sheet and its key (the key's labels
+    // count for both), so a key page lies exactly over its sheet page.
+    let label_boxes: Vec<Rect> = items.iter().chain(&key_items).filter_map(label_box).collect();
     if role == Role::Key {
-        items.extend(view.key(&mut d, bounds));
+        items.extend(key_items);
     }
-    let mut pages = Vec::new();
-    for row in 0..tiling.rows {
-        for col in 0..tiling.columns {
+    let (cols, rows) = tiles::origins(&s, &win, tiling, &label_boxes);
+    let total = tiling.pages() + 1;
+    items.extend(join_marks(&cols, &rows, &win, &label_boxes));
+    // The cover: everything but the drawing, and a map of the drawing pages
+    // at the top of the drawing window; the text block has the rest of it.
+    let map_room = Rect {
+        min: Point::new(rg.drawing.min.x, (rg.drawing.max.y - COVER_MAP_MM).max(rg.drawing.min.y)),
+        max: rg.drawing.max,
+    };
+    let mut cover_text = rg.text_block;
+    cover_text.max.y = cover_text.max.y.max(map_room.min.y - GAP_MM);
+    let mut cover = header(kit_title, p, &rg, &head, role, Some((0, total)));
+    cover.extend(tile_cover(&cols, &rows, &win, &map_room));
+    cover.extend(text_block(p, &cover_text, t, role).map_err(at)?);
+    cover.extend(side_block(p, &rg.side_block, &labels, role));
+    cover.extend(foot.iter().cloned());
+    let mut pages =
+        vec![Page { width_mm: rg.page.0, height_mm: rg.page.1, name: stem.clone(), items: cover }];
+    for (row, &top) in rows.iter().enumerate() {
+        for (col, &left) in cols.iter().enumerate() {
             let n = row * tiling.columns + col;
-            let (ox, oy) = if tiling.columns == 1 && tiling.rows == 1 {
-                // Centred in the window.
-                let ox = win.min.x + (win.width() - length) / 2.0 - s.x_min;
-                (ox, (win.min.y + win.max.y) / 2.0 - cy)
-            } else {
-                let wx0 = s.x_min + col as f64 * (win.width() - TILE_OVERLAP_MM);
-                let ox = win.min.x - wx0;
-                let oy = if tiling.rows == 1 {
-                    (win.min.y + win.max.y) / 2.0 - cy
-                } else {
-                    let wy_top = s.y_max - row as f64 * (win.height() - TILE_OVERLAP_MM);
-                    win.max.y - wy_top
-                };
-                (ox, oy)
-            };
-            let mut tile_items = items.clone();
-            if tiling.pages() > 1 {
-                tile_items.extend(join_marks(p, &tiling, &win));
-            }
-            let mut page_items = header(kit_title, p, &rg, &head, role, (n, tiling));
-            page_items.push(Item::Group { clip: win, offset: Vec2::new(ox, oy), items: tile_items });
-            if n == 0 {
-                page_items.extend(block.iter().cloned());
-            } else {
-                page_items.extend(tile_note(n, tiling, &rg.text_block));
-            }
-            page_items.extend(side_block(p, &rg.side_block, &labels, role, (n, tiling)));
+            let offset = Vec2::new(win.min.x - left, win.max.y - top);
+            let mut page_items = header(kit_title, p, &tr.common, &head, role, Some((n + 1, total)));
+            page_items.push(Item::Group { clip: win, offset, items: items.clone() });
+            page_items.extend(tile_footer(&tr, &labels, (col, row), tiling, (n + 1, total)));
             page_items.extend(foot.iter().cloned());
-            let stem = page_stem(p, role);
-            let name = if tiling.pages() > 1 { format!("{stem}-tile{}", n + 1) } else { stem };
-            pages.push(Page { width_mm: rg.page.0, height_mm: rg.page.1, name, items: page_items });
+            pages.push(Page {
+                width_mm: rg.page.0,
+                height_mm: rg.page.1,
+                name: format!("{stem}-tile{}", n + 1),
+                items: page_items,
+            });
         }
     }
     Ok(pages)
 }
 
-/// Join marks in the overlap between tiles, in the sheet frame: a cross in a
-/// ring at the top and bottom of every overlap, so neighbouring tiles line up.
-fn join_marks(p: &SheetPlan, tiling: &Tiling, win: &Rect) -> Vec<Item> {
-    let s = p.setup();
-    let mut out = Vec::new();
+/// The box of a horizontal text item (a label), in its own frame.
+fn label_box(item: &Item) -> Option<Rect> {
+    match item {
+        Item::Text { at, text: s, size_pt, weight, anchor, rotate_deg, .. } if *rotate_deg == 0.0 => {
+            Some(crate::draw::text_box(*at, s, *size_pt, *weight, *anchor))
+        }
+        _ => None,
+    }
+}
+
+/// Join marks in the overlaps between tiles, in the sheet frame: a cross in a
+/// ring near both ends of every overlap, so neighbouring pages line up; each
+/// moved along its overlap, where needed, off the drawing's labels.
+fn join_marks(cols: &[f64], rows: &[f64], win: &Rect, labels: &[Rect]) -> Vec<Item> {
+    const SIZE: f64 = 7.0;
+    let free = |at: Point| {
+        let r = Rect {
+            min: Point::new(at.x - SIZE / 2.0 - 0.5, at.y - SIZE / 2.0 - 0.5),
+            max: Point::new(at.x + SIZE / 2.0 + 0.5, at.y + SIZE / 2.0 + 0.5),
+        };
+        !labels.iter().any(|l| l.overlaps(&r))
+    };
+    // The first free point from `start` stepping by `step` along the
+    // overlap's length, trying a few places across it; `start` if none is free.
+    let find = |start: Point, step: Vec2, across: Vec2, reach: f64| {
+        let steps = (reach / step.length()).floor().max(0.0) as usize;
+        (0..=steps)
+            .flat_map(|k| [0.0, -1.0, 1.0, -2.0, 2.0].map(move |a| start + step * k as f64 + across * a))
+            .find(|p| free(*p))
+            .unwrap_or(start)
+    };
+    let mut at = Vec::new();
+    let (w, h) = (win.width(), win.height());
+    for pair in cols.windows(2) {
+        // The overlap is [pair[1], pair[0] + w]; a mark fits with 1 mm to spare.
+        let x = (pair[1] + pair[0] + w) / 2.0;
+        let slack = ((pair[0] + w - pair[1]) - SIZE - 2.0).max(0.0) / 4.0;
+        for &top in rows {
+            let reach = h / 2.0 - SIZE;
+            at.push(find(Point::new(x, top - 6.0), Vec2::new(0.0, -2.0), Vec2::new(slack, 0.0), reach));
+            at.push(find(Point::new(x, top - h + 6.0), Vec2::new(0.0, 2.0), Vec2::new(slack, 0.0), reach));
+        }
+    }
+    for pair in rows.windows(2) {
+        // The overlap is [pair[0] − h, pair[1]].
+        let y = (pair[1] + pair[0] - h) / 2.0;
+        let slack = ((pair[1] - (pair[0] - h)) - SIZE - 2.0).max(0.0) / 4.0;
+        for &left in cols {
+            let reach = w / 2.0 - SIZE;
+            at.push(find(Point::new(left + 6.0, y), Vec2::new(2.0, 0.0), Vec2::new(0.0, slack), reach));
+            at.push(find(Point::new(left + w - 6.0, y), Vec2::new(-2.0, 0.0), Vec2::new(0.0, slack), reach));
+        }
+    }
     let stroke = Stroke::solid(0.25);
-    for col in 1..tiling.columns {
-        let x = s.x_min + col as f64 * (win.width() - TILE_OVERLAP_MM) + TILE_OVERLAP_MM / 2.0;
-        let cy = (s.y_min + s.y_max) / 2.0;
-        for y in [s.y_max - 4.0, s.y_min + 4.0] {
-            // max then min, not clamp: a window under 8 mm must not panic.
-            let at = Point::new(x, y.max(cy - win.height() / 2.0 + 4.0).min(cy + win.height() / 2.0 - 4.0));
-            out.push(Item::Marker { at, shape: MarkerShape::Cross, size_mm: 7.0, stroke });
-            out.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 4.0, stroke });
+    at.into_iter()
+        .flat_map(|p| {
+            [
+                Item::Marker { at: p, shape: MarkerShape::Cross, size_mm: SIZE, stroke },
+                Item::Marker { at: p, shape: MarkerShape::Ring, size_mm: 4.0, stroke },
+            ]
+        })
+        .collect()
+}
+
+/// Height of the cover's map of the drawing pages and its note, mm.
+const COVER_MAP_MM: f64 = 38.0;
+
+/// The cover's map of the drawing pages, in the cover's drawing window: every
+/// page's window, not to scale, numbered by page, with how to join them.
+fn tile_cover(cols: &[f64], rows: &[f64], win: &Rect, room: &Rect) -> Vec<Item> {
+    let mut out = Vec::new();
+    let note = format!(
+        "This setup is larger than the paper: the drawing is on pages 2–{} that follow, laid out as this map of page numbers shows (not to scale). Lay each page over its neighbours until the ringed crosses lie on each other, then tape them.",
+        cols.len() * rows.len() + 1
+    );
+    let lines = wrap(&note, BODY_PT, Weight::Regular, room.width() - 4.0);
+    let mut y = room.max.y - 4.0;
+    for l in &lines {
+        out.push(text(Point::new(room.min.x + 2.0, y), l, BODY_PT, Weight::Regular, Anchor::Start));
+        y -= leading(BODY_PT);
+    }
+    // The map: a grid of the pages as they join, each cell as wide as the
+    // window is tall relative to its width, as large as the room allows.
+    let avail = Rect {
+        min: Point::new(room.min.x + 4.0, room.min.y + 2.0),
+        max: Point::new(room.max.x - 4.0, y - 2.0),
+    };
+    let (nc, nr) = (cols.len() as f64, rows.len() as f64);
+    let aspect = win.height() / win.width();
+    let cw = (avail.width() / nc).min(avail.height() / (nr * aspect)).min(40.0);
+    let ch = cw * aspect;
+    let x0 = avail.min.x + (avail.width() - cw * nc) / 2.0;
+    let y_top = avail.max.y - (avail.height() - ch * nr) / 2.0;
+    for row in 0..rows.len() {
+        for col in 0..cols.len() {
+            let min = Point::new(x0 + col as f64 * cw, y_top - (row as f64 + 1.0) * ch);
+            let rect = Rect { min, max: Point::new(min.x + cw, min.y + ch) };
+            out.push(Item::Box { rect, fill: None, stroke: Some(Stroke::solid(0.3)) });
+            let n = row * cols.len() + col + 2;
+            let pt = (ch * 0.5 / crate::scene::MM_PER_PT).clamp(6.5, 10.0);
+            out.push(text(
+                Point::new(min.x + cw / 2.0, min.y + ch / 2.0 - 0.35 * pt * crate::scene::MM_PER_PT),
+                &format!("{n}"),
+                pt,
+                Weight::Bold,
+                Anchor::Middle,
+            ));
         }
     }
-    for row in 1..tiling.rows {
-        let y = s.y_max - row as f64 * (win.height() - TILE_OVERLAP_MM) - TILE_OVERLAP_MM / 2.0;
-        for x in [s.x_min + 6.0, s.x_max - 6.0] {
-            out.push(Item::Marker { at: Point::new(x, y), shape: MarkerShape::Cross, size_mm: 7.0, stroke });
-            out.push(Item::Marker { at: Point::new(x, y), shape: MarkerShape::Ring, size_mm: 4.0, stroke });
-        }
+    out
+}
+
+/// A drawing page's footer and strip: where the page goes, the 100 mm bar at
+/// the bottom left and the 50 mm bar in the strip at the right.
+fn tile_footer(
+    tr: &tiles::TileRegions,
+    labels: &ScaleLabels,
+    at: (usize, usize),
+    tiling: Tiling,
+    page: (usize, usize),
+) -> Vec<Item> {
+    let f = tr.footer;
+    let mut out = across_bar(f.min.x + 1.0, f.min.y + 6.0, labels);
+    let note = format!(
+        "Page {} of {}: column {} of {}, row {} of {} of the drawing (the map is on page 1). Lay it over its neighbours until the ringed crosses lie on each other, then tape them.",
+        page.0 + 1,
+        page.1,
+        at.0 + 1,
+        tiling.columns,
+        at.1 + 1,
+        tiling.rows
+    );
+    let lines = wrap(&note, 7.0, Weight::Regular, f.width() - 2.0);
+    for (i, l) in lines.iter().enumerate() {
+        out.push(text(
+            Point::new(f.min.x + 1.0, f.max.y - 2.5 - 3.0 * i as f64),
+            l,
+            7.0,
+            Weight::Regular,
+            Anchor::Start,
+        ));
     }
+    out.extend(up_bar(tr.strip.max.x - 3.0, tr.strip.min.y + 2.0, labels));
     out
 }
 
@@ -381,7 +533,7 @@ fn header(
     rg: &Regions,
     heading: &(String, f64),
     role: Role,
-    tile: (usize, Tiling),
+    page: Option<(usize, usize)>,
 ) -> Vec<Item> {
     let top = rg.printable.max.y;
     let left = rg.printable.min.x;
@@ -394,10 +546,9 @@ fn header(
         Some(l) => format!("{l} ({})", p.piece_id),
         None => p.piece_id.clone(),
     };
-    let tile_word = if tile.1.pages() > 1 {
-        format!(" · tile {} of {}", tile.0 + 1, tile.1.pages())
-    } else {
-        String::new()
+    let tile_word = match page {
+        Some((n, total)) => format!(" · page {} of {total}", n + 1),
+        None => String::new(),
     };
     // The identity box: group and variant code (or the sheet number).
     let (lines, box_pt, bx) = identity_box(p, rg);
@@ -524,8 +675,39 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
         .collect();
     let top = y + 0.8;
     let stroke = Stroke::solid(0.2);
+    let tsize = if row_h < 4.4 { fit::FLOOR_PT } else { 7.5 };
+    // Every cell on as many lines as its column needs (a key's long outcome
+    // words on narrow paper); a row is as tall as its tallest cell.
+    let weight_of = |j: usize| if j == 2 && role == Role::Key { Weight::Bold } else { Weight::Regular };
+    let cell_lines: Vec<Vec<Vec<String>>> = rows_text
+        .iter()
+        .map(|row| {
+            row.iter()
+                .enumerate()
+                .take(xs.len())
+                .map(|(j, c)| {
+                    let room = widths[j] * r.width() - 2.0;
+                    if crate::font::text_width_mm(c, tsize, weight_of(j)) <= room {
+                        vec![c.clone()]
+                    } else {
+                        wrap(c, tsize, weight_of(j), room)
+                    }
+                })
+                .collect()
+        })
+        .collect();
+    let lead_t = leading(tsize);
+    let row_hs: Vec<f64> = cell_lines
+        .iter()
+        .map(|cells| {
+            let n = cells.iter().map(Vec::len).max().unwrap_or(1);
+            if n <= 1 { row_h } else { row_h.max(n as f64 * lead_t + 1.2) }
+        })
+        .collect();
     // The heading row (taller when a heading wraps), then the data rows.
-    let row_top = |k: usize| if k == 0 { top } else { top - head_h - (k - 1) as f64 * row_h };
+    let row_top = |k: usize| {
+        if k == 0 { top } else { top - head_h - row_hs.iter().take(k - 1).sum::<f64>() }
+    };
     for k in 0..=rows {
         let yy = row_top(k);
         out.push(Item::Line { from: Point::new(r.min.x, yy), to: Point::new(r.max.x, yy), stroke });
@@ -533,8 +715,6 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
     for &xx in xs.iter().chain(std::iter::once(&r.max.x)) {
         out.push(Item::Line { from: Point::new(xx, top), to: Point::new(xx, row_top(rows)), stroke });
     }
-    let cell = |k: usize| row_top(k + 1) + row_h * 0.3;
-    let tsize = if row_h < 4.4 { fit::FLOOR_PT } else { 7.5 };
     // Column headings at the table's size, or smaller, or on two lines; never cut.
     let heads = fit::column_heads(&st.columns, &head_room, tsize).map_err(column_error)?;
     let head_lead = leading(heads.size_pt);
@@ -545,44 +725,18 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
             out.push(text(Point::new(xs[j] + 1.0, yy), l, heads.size_pt, Weight::Bold, Anchor::Start));
         }
     }
-    for (k, row) in rows_text.iter().enumerate() {
-        let yy = cell(k + 1);
-        for (j, cell_text) in row.iter().enumerate().take(xs.len()) {
-            let weight = if j == 2 && role == Role::Key { Weight::Bold } else { Weight::Regular };
-            out.push(text(Point::new(xs[j] + 1.0, yy), cell_text, tsize, weight, Anchor::Start));
+    for (k, cells) in cell_lines.iter().enumerate() {
+        // The last line where a one-line cell sits, earlier lines above it.
+        let base = row_top(k + 2) + row_h * 0.3;
+        let n = cells.iter().map(Vec::len).max().unwrap_or(1);
+        for (j, lines) in cells.iter().enumerate() {
+            for (i, l) in lines.iter().enumerate() {
+                let yy = base + (n - 1 - i) as f64 * lead_t;
+                out.push(text(Point::new(xs[j] + 1.0, yy), l, tsize, weight_of(j), Anchor::Start));
+            }
         }
     }
     Ok(out)
-}
-
-fn tile_note(n: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
-    let lines = [
-        format!(
-            "Tile {} of {}: this setup is larger than the paper, so it is printed on {} pages.",
-            n + 1,
-            tiling.pages(),
-            tiling.pages()
-        ),
-        "Overlap neighbouring tiles until the ringed crosses lie on top of each other, then tape them."
-            .to_string(),
-        "The instructions and the table are on tile 1. The map on the right shows how the tiles join."
-            .to_string(),
-    ];
-    // Wrapped to the text block: on A5 one line is wider than the page's 128 mm.
-    lines
-        .iter()
-        .flat_map(|l| wrap(l, BODY_PT, Weight::Regular, r.width()))
-        .enumerate()
-        .map(|(i, l)| {
-            text(
-                Point::new(r.min.x, r.max.y - 3.0 - i as f64 * leading(BODY_PT)),
-                &l,
-                BODY_PT,
-                Weight::Regular,
-                Anchor::Start,
-            )
-        })
-        .collect()
 }
 
 /// The scale bars' three labels at their sizes: (text, pt) for the 100 mm
@@ -639,13 +793,11 @@ fn scale_labels(r: &Rect, t: &Templates) -> Result<ScaleLabels, Misfit> {
     })
 }
 
-fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, tile: (usize, Tiling)) -> Vec<Item> {
-    let mut out = Vec::new();
-    // Scale checks: 100 mm across at the bottom, 50 mm up at the right.
+/// The 100 mm scale bar from `(x0, y)` to the right, its label above and the
+/// hint below.
+fn across_bar(x0: f64, y: f64, labels: &ScaleLabels) -> Vec<Item> {
     let bar = Stroke::solid(0.35);
-    let y = r.min.y + 6.0;
-    let x0 = r.min.x + 1.0;
-    out.push(Item::Line { from: Point::new(x0, y), to: Point::new(x0 + 100.0, y), stroke: bar });
+    let mut out = vec![Item::Line { from: Point::new(x0, y), to: Point::new(x0 + 100.0, y), stroke: bar }];
     for k in 0..=10 {
         let x = x0 + 10.0 * f64::from(k);
         let len = if k % 5 == 0 { 2.5 } else { 1.3 };
@@ -657,9 +809,17 @@ fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, tile: (
     }
     out.push(text(Point::new(x0, y + 3.6), &labels.across.0, labels.across.1, Weight::Bold, Anchor::Start));
     out.push(text(Point::new(x0, y - 3.6), &labels.hint.0, labels.hint.1, Weight::Regular, Anchor::Start));
-    let vx = r.max.x - 3.0;
-    let vy0 = r.min.y + 4.0;
-    out.push(Item::Line { from: Point::new(vx, vy0), to: Point::new(vx, vy0 + 50.0), stroke: bar });
+    out
+}
+
+/// The 50 mm scale bar up from `(vx, vy0)`, ticks to the left and its label
+/// turned along it.
+fn up_bar(vx: f64, vy0: f64, labels: &ScaleLabels) -> Vec<Item> {
+    let mut out = vec![Item::Line {
+        from: Point::new(vx, vy0),
+        to: Point::new(vx, vy0 + 50.0),
+        stroke: Stroke::solid(0.35),
+    }];
     for k in 0..=5 {
         let yy = vy0 + 10.0 * f64::from(k);
         out.push(Item::Line {
@@ -677,10 +837,17 @@ fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, tile: (
         rotate_deg: 90.0,
         gray: 0.0,
     });
+    out
+}
+
+fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role) -> Vec<Item> {
+    // Scale checks: 100 mm across at the bottom, 50 mm up at the right.
+    let y = r.min.y + 6.0;
+    let mut out = across_bar(r.min.x + 1.0, y, labels);
+    let vx = r.max.x - 3.0;
+    out.extend(up_bar(vx, r.min.y + 4.0, labels));
     let upper = Rect { min: Point::new(r.min.x, y + 8.0), max: Point::new(vx - 6.0, r.max.y) };
-    if tile.1.pages() > 1 {
-        out.extend(tile_map(tile.0, tile.1, &upper));
-    } else if role == Role::Key && upper.height() > 20.0 {
+    if role == Role::Key && upper.height() > 20.0 {
         out.extend(p.view().key_plot(upper));
     } else if role == Role::Student
         && let Some(msg) = p.view().student_note()
@@ -691,41 +858,6 @@ fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, tile: (
         for (i, l) in lines.iter().enumerate() {
             let y = upper.min.y + 6.0 + (n - 1.0 - i as f64) * leading(BODY_PT);
             out.push(text(Point::new(upper.min.x, y), l, BODY_PT, Weight::Regular, Anchor::Start));
-        }
-    }
-    out
-}
-
-fn tile_map(current: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
-    let mut out = Vec::new();
-    let cw = 14.0;
-    let ch = 9.0;
-    let x0 = r.min.x + 2.0;
-    let y_top = r.max.y - 8.0;
-    out.push(text(
-        Point::new(x0, r.max.y - 3.5),
-        "How the tiles join (this one shaded):",
-        7.0,
-        Weight::Bold,
-        Anchor::Start,
-    ));
-    for row in 0..tiling.rows {
-        for col in 0..tiling.columns {
-            let n = row * tiling.columns + col;
-            let min = Point::new(x0 + col as f64 * (cw - 2.0), y_top - (row as f64 + 1.0) * (ch - 1.5));
-            let rect = Rect { min, max: Point::new(min.x + cw, min.y + ch) };
-            out.push(Item::Box {
-                rect,
-                fill: (n == current).then_some(0.8),
-                stroke: Some(Stroke::solid(0.25)),
-            });
-            out.push(text(
-                Point::new(min.x + cw / 2.0, min.y + ch / 2.0 - 1.2),
-                &format!("{}", n + 1),
-                7.0,
-                Weight::Bold,
-                Anchor::Middle,
-            ));
         }
     }
     out

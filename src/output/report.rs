@@ -139,7 +139,8 @@ pub fn sheet_pages<'a>(
             let t = layout::tiling_on(p, &layout::paper_for(p, paper));
             let setup = p.setup();
             let mut s = format!(
-                "tiled over {pages} pages ({} across × {} down, {}) for a setup {:.0} × {:.0} mm; ",
+                "tiled over {pages} pages (the text on page 1, the drawing on {} pages, {} across × {} down, {}) for a setup {:.0} × {:.0} mm; ",
+                t.pages(),
                 t.columns,
                 t.rows,
                 turned(p, paper),

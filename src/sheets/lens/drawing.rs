@@ -3,10 +3,10 @@
 
 use super::LensPlan as SheetPlan;
 use crate::draw::{Drawing, Placer, place_near, text, text_box};
-use crate::geom::{Arc, Point, Vec2};
+use crate::geom::{Point, Vec2};
 use crate::optics::{Boundary, Face, Outcome, Outline};
 use crate::plan::fmt_mm;
-use crate::scene::{Anchor, Dash, Item, MarkerShape, OutlinePart, Rect, Stroke, Weight};
+use crate::scene::{Anchor, Dash, Item, MarkerShape, Rect, Stroke, Weight};
 use crate::sheets::SheetKind;
 
 /// Line weights, mm: pencil lines are about 0.3–0.5 mm (common practice, no source).
@@ -23,27 +23,16 @@ pub const LABEL_PT: f64 = 7.5;
 const AXIS_DASH: Dash = Dash::DashDot { long_mm: 6.0, short_mm: 1.0, gap_mm: 1.2 };
 const LINE_DASH: Dash = Dash::Dashed { on_mm: 2.5, off_mm: 1.5 };
 
-fn face_arc(outline: &Outline, b: Boundary, from: Point, to: Point) -> Option<OutlinePart> {
-    let c = outline.center(b)?;
-    let arc = Arc::short_way(c, from, to)?;
-    Some(OutlinePart::ArcTo {
-        center: c,
-        radius_mm: arc.radius,
-        start_rad: arc.start_rad,
-        sweep_rad: arc.sweep_rad,
-    })
-}
-
-/// The piece outline as one closed figure: entry face top→bottom, bottom edge,
-/// exit face bottom→top, top edge.
+/// The piece outline as one closed figure, from the traced shape's own edges
+/// (entry face top→bottom, bottom edge, exit face bottom→top, top edge), so
+/// a half-disc's 180° face is drawn the way it is traced. (Issue 9: the arcs
+/// were once rebuilt "the short way" between their ends, which is ambiguous
+/// for a semicircle and drew some half-discs' curved face on the wrong side.)
 pub fn outline_item(outline: &Outline, fill: Option<f64>) -> Item {
-    let [et, xt, xb, eb] = outline.corners();
-    let mut parts = vec![OutlinePart::MoveTo { to: et }];
-    parts.push(face_arc(outline, Boundary::Entry, et, eb).unwrap_or(OutlinePart::LineTo { to: eb }));
-    parts.push(OutlinePart::LineTo { to: xb });
-    parts.push(face_arc(outline, Boundary::Exit, xb, xt).unwrap_or(OutlinePart::LineTo { to: xt }));
-    parts.push(OutlinePart::LineTo { to: et });
-    Item::Outline { parts, fill, stroke: Stroke::solid(OUTLINE_W) }
+    match crate::draw::shape_outline(outline.shape(), Stroke::solid(OUTLINE_W)) {
+        Item::Outline { parts, stroke, .. } => Item::Outline { parts, fill, stroke },
+        other => other,
+    }
 }
 
 fn line(from: Point, to: Point, stroke: Stroke) -> Item {
