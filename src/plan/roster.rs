@@ -1,6 +1,6 @@
 //! Reading a roster: a UTF-8 CSV with a `name` column, one group per row.
 
-use crate::kit::{MAX_GROUPS, group_name_problem};
+use crate::kit::{MAX_GROUPS, group_name_problem, normal_group_name};
 
 /// A problem in a roster file, located.
 #[derive(Clone, Debug, PartialEq)]
@@ -49,7 +49,7 @@ pub fn parse_roster(text: &str, file: &str) -> Result<Vec<String>, RosterError> 
         if rec.iter().all(|f| f.trim().is_empty()) {
             continue;
         }
-        let name = rec.get(col).unwrap_or("").trim().to_string();
+        let name = normal_group_name(rec.get(col).unwrap_or(""));
         if let Some(problem) = group_name_problem(&name) {
             return Err(err(line, format!("{problem}; give a short printable name, such as Bench A")));
         }
