@@ -18,6 +18,8 @@ use raysheet::sheets::Lesson;
 use raysheet::sheets::SheetKind;
 use raysheet::sheets::lens::SafeBand;
 use raysheet::sheets::{ClassPlan, plan_class};
+use unicode_normalization::char::is_combining_mark;
+use unicode_normalization::is_nfc;
 
 mod common {
     pub mod cli;
@@ -331,11 +333,14 @@ fn every_answer_entry_names_its_group_and_variant() {
 
 /// A folder name a file system takes on any platform without surprises.
 fn assert_safe_folder(f: &str, from: &str) {
-    assert!(!f.is_empty() && f.len() <= 64, "{from:?} → {f:?}: length");
+    assert!(!f.is_empty() && f.chars().count() <= 40 && f.len() <= 255, "{from:?} → {f:?}: length");
+    // Letters and digits of any script (with their combining marks), lower
+    // case, in NFC (UAX #15), and hyphens.
     assert!(
-        f.chars().all(|c| c.is_ascii_lowercase() || c.is_ascii_digit() || c == '-'),
+        f.chars().all(|c| (c.is_alphanumeric() && !c.is_uppercase()) || is_combining_mark(c) || c == '-'),
         "{from:?} → {f:?}: characters"
     );
+    assert!(is_nfc(f), "{from:?} → {f:?}: not NFC");
     assert!(!f.starts_with('-') && !f.ends_with('-'), "{from:?} → {f:?}: edges");
     // Windows device names (Microsoft, "Naming Files, Paths, and Namespaces").
     let stem = f.split('.').next().unwrap_or("");
@@ -403,6 +408,11 @@ fn hostile_roster_names_give_safe_folders_or_located_errors() {
         "Bench A",
         "bench a",
         "Ωμέγα",
+        "a\u{200B}b",
+        "\u{202E}Bench\u{2066}",
+        "Rene\u{0301}e",
+        "\u{3164}",
+        ".. .",
         "/etc/passwd",
     ]
     .iter()

@@ -254,13 +254,7 @@ pub fn resolve_groups(kit: &Kit, roster: Option<&Source<Vec<u8>>>) -> Result<Opt
             .content
             .as_ref()
             .map_err(|e| Failure::Input(format!("{name}: cannot read the roster: {e}")))?;
-        let text = std::str::from_utf8(bytes).map_err(|e| {
-            Failure::Input(format!(
-                "{name}: the roster is not UTF-8 text (bad byte at offset {}); save it as UTF-8 CSV",
-                e.valid_up_to()
-            ))
-        })?;
-        return plan::parse_roster(text, &name).map(Some).map_err(|e| Failure::Input(e.to_string()));
+        return plan::read_roster(bytes, &name).map(Some).map_err(|e| Failure::Input(e.to_string()));
     }
     Ok(match &kit.class.groups {
         Groups::None => None,
@@ -442,7 +436,14 @@ mod tests {
         assert_eq!(e, Failure::Input("r.csv: cannot read the roster: permission denied".into()));
         let latin1 = source("r.csv", Ok(b"name\nB\xe4nk\n".to_vec()));
         let e = resolve_groups(&kit, latin1.as_ref()).unwrap_err().to_string();
-        assert!(e.contains("not UTF-8") && e.contains("offset 6"), "{e}");
+        assert!(
+            e.starts_with("r.csv:2: field `name`: ") && e.contains("not UTF-8") && e.contains("offset 6"),
+            "{e}"
+        );
+        let utf16: Vec<u8> =
+            [0xFEFF].into_iter().chain("name\nBench Ä\n".encode_utf16()).flat_map(u16::to_le_bytes).collect();
+        let utf16 = source("r.txt", Ok(utf16));
+        assert_eq!(resolve_groups(&kit, utf16.as_ref()).unwrap().unwrap(), ["Bench Ä"]);
     }
 
     #[test]

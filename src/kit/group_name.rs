@@ -1,8 +1,17 @@
 //! Whether a class-set group name can be printed on a sheet: the one check
 //! shared by the kit's `[class] names` and a `--roster` file.
 
+use unicode_normalization::UnicodeNormalization;
+
 /// Longest group name printed on a sheet, characters.
 pub const MAX_NAME_CHARS: usize = 40;
+
+/// A group name as raysheet keeps it: without surrounding spaces and in
+/// Unicode Normalization Form C (UAX #15), so `e` + U+0301 and `é`, which
+/// print alike, are one name, printed and compared as `é`.
+pub fn normal_group_name(raw: &str) -> String {
+    raw.trim().nfc().collect()
+}
 
 /// Why a group name cannot be used, or `None` if it can.
 pub fn group_name_problem(name: &str) -> Option<String> {

@@ -16,7 +16,7 @@ use std::collections::BTreeMap;
 pub use error::KitError;
 use error::Locator;
 pub use fields::{COMMON_SHEET_FIELDS, Located, Place, SheetEntry};
-pub use group_name::{MAX_NAME_CHARS, group_name_problem};
+pub use group_name::{MAX_NAME_CHARS, group_name_problem, normal_group_name};
 use raw::{RawKit, RawPiece, TABLE_FIELDS};
 use toml::Spanned;
 
@@ -763,7 +763,7 @@ impl Validator<'_> {
                 }
                 let mut out: Vec<String> = Vec::new();
                 for (j, n) in names.get_ref().iter().enumerate() {
-                    let name = n.get_ref().trim().to_string();
+                    let name = normal_group_name(n.get_ref());
                     if let Some(msg) = group_name_problem(&name) {
                         return self.err(
                             n.span(),

@@ -5,12 +5,14 @@
 mod folders;
 mod letters;
 mod roster;
+mod roster_text;
 pub mod scan;
 pub mod variants;
 
 pub use folders::{folder_names, slug};
 pub use letters::{RAY_LETTERS, ray_letters, top_down};
-pub use roster::{RosterError, parse_roster};
+pub use roster::{RosterError, parse_roster, read_roster};
+pub use roster_text::{RosterEncoding, decode_roster};
 
 /// One group of a class set.
 #[derive(Clone, Debug, PartialEq)]
