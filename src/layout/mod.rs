@@ -13,7 +13,7 @@ pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_
 
 use fit::Misfit;
 
-use crate::draw::{Drawing, leading, text, wrap};
+use crate::draw::{Drawing, Words, leading, text, wrap};
 use crate::geom::{Point, Vec2};
 use crate::paper::bands::{
     CAUTION_MM, GAP_MM, HEADER_MM, SIDE_BLOCK_MM, SIDE_BY_SIDE_FROM_MM, TEXT_BLOCK_MM,
@@ -174,6 +174,12 @@ pub fn layout(
 fn locate(m: Misfit, t: &Templates, paper: &PaperSpec, rg: &Regions) -> TextFitError {
     let place = if m.file == "common.toml" {
         t.common.places.of(&m.field)
+    } else if m.file == templates::WORDS_FILE {
+        // A key the teacher's file left out keeps the shipped text: name the shipped file.
+        match t.word_places.get(&m.field) {
+            Some(p) => p.clone(),
+            None => format!("templates/{}: field `{}`", templates::WORDS_FILE, m.field),
+        }
     } else {
         t.sheet(&m.file).places.of(&m.field)
     };
@@ -210,6 +216,7 @@ pub fn pages_for(
     let at = |m: Misfit| locate(m, t, paper, &rg);
     // Every page of the plan has the same header, text block, side block and
     // caution text, so their fit is settled once, before the tiles.
+    let w = &t.words;
     let head = header_text(p, &rg, t).map_err(at)?;
     let block = text_block(p, &rg.text_block, t, role).map_err(at)?;
     let labels = scale_labels(&rg.side_block, t).map_err(at)?;
@@ -233,10 +240,10 @@ pub fn pages_for(
         Rect { min: Point::new(s.x_min, s.y_min), max: Point::new(s.x_max, s.y_max) }
     };
     let view = p.view();
-    let mut d: Drawing = view.student(bounds);
+    let mut d: Drawing = view.student(bounds, w);
     let mut items = std::mem::take(&mut d.items);
     if role == Role::Key {
-        items.extend(view.key(&mut d, bounds));
+        items.extend(view.key(&mut d, bounds, w));
     }
     let mut pages = Vec::new();
     for row in 0..tiling.rows {
@@ -261,14 +268,14 @@ pub fn pages_for(
             if tiling.pages() > 1 {
                 tile_items.extend(join_marks(p, &tiling, &win));
             }
-            let mut page_items = header(kit_title, p, &rg, &head, role, (n, tiling));
+            let mut page_items = header(kit_title, p, &rg, &head, role, (n, tiling), w);
             page_items.push(Item::Group { clip: win, offset: Vec2::new(ox, oy), items: tile_items });
             if n == 0 {
                 page_items.extend(block.iter().cloned());
             } else {
-                page_items.extend(tile_note(n, tiling, &rg.text_block));
+                page_items.extend(tile_note(n, tiling, &rg.text_block, w));
             }
-            page_items.extend(side_block(p, &rg.side_block, &labels, role, (n, tiling)));
+            page_items.extend(side_block(p, &rg.side_block, &labels, role, (n, tiling), w));
             page_items.extend(foot.iter().cloned());
             let stem = page_stem(p, role);
             let name = if tiling.pages() > 1 { format!("{stem}-tile{}", n + 1) } else { stem };
@@ -306,7 +313,7 @@ fn join_marks(p: &SheetPlan, tiling: &Tiling, win: &Rect) -> Vec<Item> {
 
 /// The identity box's lines (group, and variant code or sheet number), their
 /// size and the box, top right of the printable area.
-fn identity_box(p: &SheetPlan, rg: &Regions) -> (Vec<String>, f64, Rect) {
+fn identity_box(p: &SheetPlan, rg: &Regions, w: &Words) -> (Vec<String>, f64, Rect) {
     let top = rg.printable.max.y;
     let left = rg.printable.min.x;
     let right = rg.printable.max.x;
@@ -315,8 +322,8 @@ fn identity_box(p: &SheetPlan, rg: &Regions) -> (Vec<String>, f64, Rect) {
         lines.push(g.clone());
     }
     lines.push(match &p.variant {
-        Some(v) => format!("variant {v}"),
-        None => format!("sheet {}", p.number),
+        Some(v) => w.fill("identity_variant", &[("code", v)]),
+        None => w.fill("identity_sheet", &[("number", &p.number.to_string())]),
     });
     // A long group name is set smaller so the box leaves room for the heading,
     // and on narrow paper (A5) also wrapped to two lines at 7 pt.
@@ -344,9 +351,10 @@ fn identity_box(p: &SheetPlan, rg: &Regions) -> (Vec<String>, f64, Rect) {
 /// left of the identity box, or the template's heading refused.
 fn header_text(p: &SheetPlan, rg: &Regions, t: &Templates) -> Result<(String, f64), Misfit> {
     let heading = &sheet_text(p, t).heading;
-    let (_, _, bx) = identity_box(p, rg);
-    let suffix = format!(": sheet {}", p.number);
-    let line = format!("{heading}{suffix}");
+    let (_, _, bx) = identity_box(p, rg, &t.words);
+    let line = t.words.fill("heading_line", &[("heading", heading), ("number", &p.number.to_string())]);
+    // What the line adds to the heading, for the message.
+    let suffix = t.words.fill("heading_line", &[("heading", ""), ("number", &p.number.to_string())]);
     let room = bx.min.x - 3.0 - rg.printable.min.x;
     match fit::one_line(&line, &fit::HEADING_PT, Weight::Bold, room) {
         Ok(pt) => Ok((line, pt)),
@@ -381,25 +389,21 @@ fn header(
     heading: &(String, f64),
     role: Role,
     tile: (usize, Tiling),
+    w: &Words,
 ) -> Vec<Item> {
     let top = rg.printable.max.y;
     let left = rg.printable.min.x;
     let mut items = Vec::new();
     let role_word = match role {
-        Role::Student => "Student sheet",
-        Role::Key => "ANSWER KEY (teacher's copy)",
+        Role::Student => w.say("role_student"),
+        Role::Key => w.say("role_key"),
     };
     let piece = match &p.piece_label {
-        Some(l) => format!("{l} ({})", p.piece_id),
+        Some(l) => w.fill("piece_with_id", &[("label", l), ("id", &p.piece_id)]),
         None => p.piece_id.clone(),
     };
-    let tile_word = if tile.1.pages() > 1 {
-        format!(" · tile {} of {}", tile.0 + 1, tile.1.pages())
-    } else {
-        String::new()
-    };
     // The identity box: group and variant code (or the sheet number).
-    let (lines, box_pt, bx) = identity_box(p, rg);
+    let (lines, box_pt, bx) = identity_box(p, rg, w);
     let right = rg.printable.max.x;
     items.push(Item::Box { rect: bx, fill: None, stroke: Some(Stroke::solid(0.4)) });
     let n = lines.len() as f64;
@@ -412,10 +416,15 @@ fn header(
     let (heading_line, heading_pt) = heading;
     items.push(text(Point::new(left, top - 5.0), heading_line, *heading_pt, Weight::Bold, Anchor::Start));
     // The subtitle fits left of the identity box: 8 pt, else two lines of 7 pt.
-    let subtitle = format!(
-        "{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}",
-        p.view().entry_words()
-    );
+    let entry = p.view().entry_words(w);
+    let slots =
+        [("kit", kit_title), ("piece", piece.as_str()), ("entry", entry.as_str()), ("role", role_word)];
+    let subtitle = if tile.1.pages() > 1 {
+        let (n, of) = ((tile.0 + 1).to_string(), tile.1.pages().to_string());
+        w.fill("subtitle_tile", &[&slots[..], &[("tile", n.as_str()), ("tiles", of.as_str())]].concat())
+    } else {
+        w.fill("subtitle", &slots)
+    };
     let room = bx.min.x - 3.0 - left;
     if crate::font::text_width_mm(&subtitle, BODY_PT, Weight::Regular) <= room {
         items.push(text(Point::new(left, top - 10.5), &subtitle, BODY_PT, Weight::Regular, Anchor::Start));
@@ -460,9 +469,9 @@ fn caution(r: &Rect, t: &Templates) -> Result<Vec<Item>, Misfit> {
     Ok(out)
 }
 
-fn fill(template: &str, p: &SheetPlan) -> String {
-    let piece = p.piece_label.clone().unwrap_or_else(|| format!("piece {}", p.piece_id));
-    template.replace("{piece}", &piece).replace("{entry}", &p.view().entry_words())
+fn fill(template: &str, p: &SheetPlan, w: &Words) -> String {
+    let piece = p.piece_label.clone().unwrap_or_else(|| w.fill("piece_unnamed", &[("id", &p.piece_id)]));
+    template.replace("{piece}", &piece).replace("{entry}", &p.view().entry_words(w))
 }
 
 fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<Item>, Misfit> {
@@ -470,7 +479,7 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
     let file = p.view().template();
     let mut out = Vec::new();
     let mut y = r.max.y - 3.0;
-    let rows_text = p.view().table_rows(role == Role::Key);
+    let rows_text = p.view().table_rows(role == Role::Key, &t.words);
     let rows = rows_text.len() + 1;
     let widths = p.view().table_widths();
     // Room for each column heading: the column less 1 mm either side.
@@ -487,17 +496,17 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
     let (lines, size): (Vec<String>, f64) =
         match role {
             Role::Student => {
-                let filled: Vec<String> = st.instructions.iter().map(|l| fill(l, p)).collect();
+                let filled: Vec<String> = st.instructions.iter().map(|l| fill(l, p, &t.words)).collect();
                 let table_mm = head_min + (rows - 1) as f64 * fit::MIN_ROW_MM;
                 let b = fit::paragraphs(&filled, r.width(), r.height(), table_mm).map_err(|(i, why)| {
                     Misfit { file: file.to_string(), field: format!("instructions[{}]", i + 1), why }
                 })?;
                 (b.lines, b.size_pt)
             }
-            Role::Key => (
-                p.view().key_lines().iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(),
-                6.8,
-            ),
+            Role::Key => {
+                let table_mm = head_min + (rows - 1) as f64 * fit::MIN_ROW_MM;
+                key_text(&p.view().key_lines(&t.words), r, table_mm, &t.words)?
+            }
         };
     let lead = leading(size);
     for l in &lines {
@@ -554,18 +563,40 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
     Ok(out)
 }
 
-fn tile_note(n: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
-    let lines = [
-        format!(
-            "Tile {} of {}: this setup is larger than the paper, so it is printed on {} pages.",
-            n + 1,
-            tiling.pages(),
-            tiling.pages()
+/// The key's lines at 6.8 pt, or at the smallest size when they need it, so
+/// the measurement table still fits under them; else the `words.toml` key
+/// of the longest line is refused.
+fn key_text(key_lines: &[String], r: &Rect, table_mm: f64, w: &Words) -> Result<(Vec<String>, f64), Misfit> {
+    let room = r.height() - 4.0 - table_mm;
+    for pt in [6.8, fit::FLOOR_PT] {
+        let lines: Vec<String> =
+            key_lines.iter().flat_map(|l| wrap(l, pt, Weight::Regular, r.width())).collect();
+        let fits = lines.iter().all(|l| crate::font::text_width_mm(l, pt, Weight::Regular) <= r.width());
+        if fits && lines.len() as f64 * leading(pt) <= room {
+            return Ok((lines, pt));
+        }
+    }
+    let longest = key_lines.iter().max_by_key(|l| l.chars().count()).cloned().unwrap_or_default();
+    let n = key_lines.iter().map(|l| wrap(l, fit::FLOOR_PT, Weight::Regular, r.width()).len()).sum::<usize>();
+    Err(Misfit {
+        file: templates::WORDS_FILE.into(),
+        field: w.key_of(&longest).unwrap_or("?").to_string(),
+        why: format!(
+            "the answer key's text wraps to {n} lines at {} pt, the smallest size, on a {:.0} mm line, and the text block holds {:.0} above the measurement table; this is its longest line (\"{}\"); shorten it",
+            fit::FLOOR_PT,
+            r.width(),
+            (room / leading(fit::FLOOR_PT)).floor().max(0.0),
+            fit::quote(&longest, 40)
         ),
-        "Overlap neighbouring tiles until the ringed crosses lie on top of each other, then tape them."
-            .to_string(),
-        "The instructions and the table are on tile 1. The map on the right shows how the tiles join."
-            .to_string(),
+    })
+}
+
+fn tile_note(n: usize, tiling: Tiling, r: &Rect, w: &Words) -> Vec<Item> {
+    let (tile, tiles) = ((n + 1).to_string(), tiling.pages().to_string());
+    let lines = [
+        w.fill("tile_note_1", &[("tile", &tile), ("tiles", &tiles)]),
+        w.say("tile_note_2").to_string(),
+        w.say("tile_note_3").to_string(),
     ];
     // Wrapped to the text block: on A5 one line is wider than the page's 128 mm.
     lines
@@ -638,7 +669,14 @@ fn scale_labels(r: &Rect, t: &Templates) -> Result<ScaleLabels, Misfit> {
     })
 }
 
-fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, tile: (usize, Tiling)) -> Vec<Item> {
+fn side_block(
+    p: &SheetPlan,
+    r: &Rect,
+    labels: &ScaleLabels,
+    role: Role,
+    tile: (usize, Tiling),
+    w: &Words,
+) -> Vec<Item> {
     let mut out = Vec::new();
     // Scale checks: 100 mm across at the bottom, 50 mm up at the right.
     let bar = Stroke::solid(0.35);
@@ -678,11 +716,11 @@ fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, tile: (
     });
     let upper = Rect { min: Point::new(r.min.x, y + 8.0), max: Point::new(vx - 6.0, r.max.y) };
     if tile.1.pages() > 1 {
-        out.extend(tile_map(tile.0, tile.1, &upper));
+        out.extend(tile_map(tile.0, tile.1, &upper, w));
     } else if role == Role::Key && upper.height() > 20.0 {
-        out.extend(p.view().key_plot(upper));
+        out.extend(p.view().key_plot(upper, w));
     } else if role == Role::Student
-        && let Some(msg) = p.view().student_note()
+        && let Some(msg) = p.view().student_note(w)
     {
         // Wrapped to the room left of the vertical scale bar, the last line where one line would be.
         let lines = wrap(&msg, BODY_PT, Weight::Regular, upper.width());
@@ -695,19 +733,13 @@ fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, tile: (
     out
 }
 
-fn tile_map(current: usize, tiling: Tiling, r: &Rect) -> Vec<Item> {
+fn tile_map(current: usize, tiling: Tiling, r: &Rect, w: &Words) -> Vec<Item> {
     let mut out = Vec::new();
     let cw = 14.0;
     let ch = 9.0;
     let x0 = r.min.x + 2.0;
     let y_top = r.max.y - 8.0;
-    out.push(text(
-        Point::new(x0, r.max.y - 3.5),
-        "How the tiles join (this one shaded):",
-        7.0,
-        Weight::Bold,
-        Anchor::Start,
-    ));
+    out.push(text(Point::new(x0, r.max.y - 3.5), w.say("tile_map_title"), 7.0, Weight::Bold, Anchor::Start));
     for row in 0..tiling.rows {
         for col in 0..tiling.columns {
             let n = row * tiling.columns + col;
