@@ -244,3 +244,40 @@ fn pseudo_words_keep_lengths_and_placeholders() {
     assert!(ascii_words(&p.replace("{piece}", "")).is_empty(), "{p}");
     assert_eq!(ascii_words("Lens maker's, 10 mm ABCD"), ["lens", "maker", "abcd"]);
 }
+
+/// Edited key text that cannot fit above the table is refused, naming the
+/// words.toml line and key, never drawn over the table.
+#[test]
+fn key_text_too_long_is_refused_with_its_key() {
+    let long = vec!["Ołžø øžł ħŧŋđ ž {value} ŋŧ."; 60].join(" ");
+    let text = format!("lens_tolerances = \"{long}\"\n");
+    let overrides = BTreeMap::from([("words.toml".to_string(), ("mine/words.toml".to_string(), text))]);
+    let t = Templates::with_overrides(&overrides).expect("the file is valid");
+    let lesson = Lesson::from_toml(DEMO_KIT, "demo").unwrap();
+    let paper = paper("A4");
+    let plans = plan_lesson(&lesson, &paper);
+    let err = match layout::layout(&lesson.kit.title, &plans, &paper, &t) {
+        Ok(_) => panic!("a key text of 60 sentences cannot fit"),
+        Err(e) => e.to_string(),
+    };
+    assert!(err.starts_with("mine/words.toml:1:19: field `lens_tolerances`"), "{err}");
+    assert!(err.contains("shorten it"), "{err}");
+}
+
+/// An edited drawing label too long for any place in its drawing is refused
+/// with its key, not cut off by the drawing window.
+#[test]
+fn a_drawing_label_too_long_is_refused_with_its_key() {
+    let long = vec!["łžø ħŧŋđ"; 40].join(" ");
+    let text = format!("# mine\nflat_face = \"{long}\"\n");
+    let overrides = BTreeMap::from([("words.toml".to_string(), ("mine/words.toml".to_string(), text))]);
+    let t = Templates::with_overrides(&overrides).expect("the file is valid");
+    let lesson = Lesson::from_toml(DEMO_KIT, "demo").unwrap();
+    let paper = paper("A4");
+    let plans = plan_lesson(&lesson, &paper);
+    let err = match layout::layout(&lesson.kit.title, &plans, &paper, &t) {
+        Ok(_) => panic!("a 359-character label cannot fit beside the flat face"),
+        Err(e) => e.to_string(),
+    };
+    assert!(err.starts_with("mine/words.toml:2:13: field `flat_face`: the drawing label"), "{err}");
+}

@@ -245,6 +245,7 @@ pub fn pages_for(
     if role == Role::Key {
         items.extend(view.key(&mut d, bounds, w));
     }
+    labels_inside(&items, &bounds, w).map_err(at)?;
     let mut pages = Vec::new();
     for row in 0..tiling.rows {
         for col in 0..tiling.columns {
@@ -283,6 +284,47 @@ pub fn pages_for(
         }
     }
     Ok(pages)
+}
+
+/// Every drawn label from `words.toml` lies inside the room labels have
+/// (`bounds`, with a 1 mm allowance, turned labels included): an edited
+/// label that the placer could only put partly outside would be cut off by
+/// the drawing window or run off the page, so it is refused with its key.
+fn labels_inside(items: &[Item], bounds: &Rect, w: &Words) -> Result<(), Misfit> {
+    let room = Rect {
+        min: Point::new(bounds.min.x - 1.0, bounds.min.y - 1.0),
+        max: Point::new(bounds.max.x + 1.0, bounds.max.y + 1.0),
+    };
+    for it in items {
+        let Item::Text { at, text: s, size_pt, weight, anchor, rotate_deg, .. } = it else { continue };
+        let b = crate::draw::text_box(*at, s, *size_pt, *weight, *anchor);
+        let (sin, cos) = rotate_deg.to_radians().sin_cos();
+        let turned: Vec<Point> = [b.min, Point::new(b.max.x, b.min.y), b.max, Point::new(b.min.x, b.max.y)]
+            .iter()
+            .map(|p| {
+                let (dx, dy) = (p.x - at.x, p.y - at.y);
+                Point::new(at.x + dx * cos - dy * sin, at.y + dx * sin + dy * cos)
+            })
+            .collect();
+        if turned.iter().all(|p| room.contains(*p)) {
+            continue;
+        }
+        // Text from the kit or from numbers alone is not the teacher's words to shorten.
+        let Some(key) = w.key_of(s) else { continue };
+        return Err(Misfit {
+            file: templates::WORDS_FILE.into(),
+            field: key.to_string(),
+            why: format!(
+                "the drawing label \"{}\" ({} characters, {:.0} mm at {size_pt} pt) finds no place inside the {:.0} × {:.0} mm drawing it labels; shorten it",
+                fit::quote(s, 40),
+                s.chars().count(),
+                crate::font::text_width_mm(s, *size_pt, *weight),
+                bounds.width(),
+                bounds.height()
+            ),
+        });
+    }
+    Ok(())
 }
 
 /// Join marks in the overlap between tiles, in the sheet frame: a cross in a

@@ -453,6 +453,44 @@ mod tests {
         }
     }
 
+    /// Issue 9: words.toml errors name the file, line, column and key, and
+    /// say what is accepted.
+    #[test]
+    fn words_errors_name_the_key_and_what_is_accepted() {
+        let cases = [
+            ("optical_axes = \"x\"\n", "1:1: field `optical_axes`", "did you mean `optical_axis`?"),
+            ("\n  normal = \"x\"\nray_box = 3\n", "3:11", "string"),
+            (
+                "not_graded = \"{valeur} (non noté)\"\n",
+                "1:14: field `not_graded`",
+                "unknown placeholder {valeur}; this text takes {value}",
+            ),
+            (
+                "identity_variant = \"variante\"\n",
+                "1:20: field `identity_variant`",
+                "placeholder {code} is missing",
+            ),
+            ("optical_axis = \"漢\"\n", "1:16: field `optical_axis`", "U+6F22"),
+        ];
+        for (text, at, words) in cases {
+            let err = super::Templates::with_overrides(&one("words.toml", text)).unwrap_err();
+            assert!(err.starts_with(&format!("mine/words.toml:{at}")), "{err}");
+            assert!(err.contains(words) && !err.contains('\n'), "{err}");
+        }
+        let t = super::Templates::with_overrides(&one(
+            "words.toml",
+            "# nur eins\noptical_axis = \"optische Achse\"\nnot_graded = \"{value} (ohne Wertung)\"\n",
+        ))
+        .unwrap();
+        assert_eq!(t.words.say("optical_axis"), "optische Achse");
+        assert_eq!(t.words.fill("not_graded", &[("value", "12.5")]), "12.5 (ohne Wertung)");
+        assert_eq!(t.words.say("normal"), "normal", "a key left out keeps the shipped text");
+        assert_eq!(
+            t.word_places.get("optical_axis").map(String::as_str),
+            Some("mine/words.toml:2:16: field `optical_axis`")
+        );
+    }
+
     #[test]
     fn shipped_templates_parse() {
         let t = super::Templates::shipped().unwrap();
