@@ -539,7 +539,8 @@ fn templates_that_run_off_the_page_when_accepted_lay_out_cleanly() {
         "safety = \"{caution}\"\nscale_check = \"Check before use: this bar must measure 100 mm\"\nscale_check_vertical = \"this bar must measure 50 mm\"\nscale_hint = \"If not, print again at actual size (100 %, no fit to page, no scaling).\"\n"
     );
     let mut overrides = BTreeMap::new();
-    for name in raysheet::layout::TEMPLATE_FILES {
+    // Every sheet template and common.toml (words.toml is a different shape; the translation test edits it).
+    for name in raysheet::layout::TEMPLATE_FILES.iter().filter(|n| **n != "words.toml") {
         let text = if *name == "common.toml" { common.clone() } else { sheet.clone() };
         overrides.insert(name.to_string(), (format!("mine/{name}"), text));
     }

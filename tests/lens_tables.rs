@@ -77,7 +77,7 @@ fn lens_key_tables_give_accept_ranges_that_match_the_answers() {
         let view = plan.view();
         let answers = view.answers();
         let rays: Vec<&Value> = answers["rays"].as_array().expect("rays").iter().collect();
-        let rows = view.table_rows(true);
+        let rows = view.table_rows(true, &raysheet::draw::Words::shipped());
         let diverging = view.template() == "focal-diverging.toml";
         let mut offsets = Vec::new();
         for row in &rows {
@@ -158,7 +158,7 @@ fn an_on_axis_ray_says_so_on_the_student_sheet() {
     let mut seen = 0;
     for plan in lens_plans() {
         let answers = plan.view().answers();
-        for row in plan.view().table_rows(false) {
+        for row in plan.view().table_rows(false, &raysheet::draw::Words::shipped()) {
             let ray = answers["rays"]
                 .as_array()
                 .expect("rays")

@@ -49,7 +49,7 @@ fn issue9_class_set_tolerance_at_most_a_tenth_of_the_crossing() {
             for plan in plans(text, name, groups, seed, &paper) {
                 let answers = plan.view().answers();
                 let Some(rays) = answers["rays"].as_array() else { continue };
-                let key_rows = plan.view().table_rows(true);
+                let key_rows = plan.view().table_rows(true, &raysheet::draw::Words::shipped());
                 for r in rays {
                     let letter = r["ray"].as_str().expect("letter");
                     // The graded distance: from the flat face (the entry vertex) on
@@ -74,7 +74,10 @@ fn issue9_class_set_tolerance_at_most_a_tenth_of_the_crossing() {
                         let row = key_rows.iter().find(|row| row[0] == letter).expect("the ray's row");
                         assert!(row[2].contains("not graded"), "{name} sheet {}: {row:?}", plan.number);
                         assert!(
-                            plan.view().key_lines().iter().any(|l| l.contains("10 %")),
+                            plan.view()
+                                .key_lines(&raysheet::draw::Words::shipped())
+                                .iter()
+                                .any(|l| l.contains("10 %")),
                             "{name} sheet {}: the key does not say why ray {letter} is not graded",
                             plan.number
                         );

@@ -30,6 +30,7 @@ fn arc_midpoints(items: &[Item]) -> Vec<Point> {
 
 #[test]
 fn half_disc_curved_face_drawn_mirrored() {
+    let words = raysheet::layout::Templates::shipped().unwrap().words;
     // Radii 10.0 to 60.0 mm in 0.1 mm steps, each a full half-disc (thickness
     // R, height 2R), read flat face first and curved face first.
     for tenth in 100..=600 {
@@ -46,7 +47,7 @@ fn half_disc_curved_face_drawn_mirrored() {
             let lesson = Lesson::from_toml(&kit, "half-disc.toml").unwrap();
             let plan = &plan_lesson(&lesson, &lesson.paper)[0];
             let big = Rect { min: Point::new(-1e4, -1e4), max: Point::new(1e4, 1e4) };
-            let d = plan.view().student(big);
+            let d = plan.view().student(big, &words);
             let mids = arc_midpoints(&d.items);
             assert_eq!(mids.len(), 1, "R {r}: one curved face");
             // The sheet frame puts the entry face's vertex at x = 0 and the

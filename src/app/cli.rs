@@ -81,7 +81,8 @@ pub struct OutArgs {
     #[arg(long)]
     pub force: bool,
     /// Folder with your own sheet text (any of curved-face.toml, focal.toml,
-    /// focal-diverging.toml, common.toml; `raysheet templates --out DIR` writes the shipped ones).
+    /// focal-diverging.toml, block.toml, prism.toml, prism-turn.toml, common.toml,
+    /// words.toml; `raysheet templates --out DIR` writes the shipped ones).
     #[arg(long, value_name = "DIR")]
     pub templates: Option<PathBuf>,
 }

@@ -12,11 +12,13 @@ pub mod labels;
 mod outline;
 pub mod style;
 pub mod text;
+pub mod words;
 
 pub use fan::{AngleScale, AngleTicks, ScaleNumber, Tick, TickSize, angle_ticks};
 pub use labels::{Placer, clip_segment, place_lines_near, place_near};
 pub use outline::{path_points, shape_outline};
 pub use text::{leading, text, text_box, wrap};
+pub use words::Words;
 
 use crate::geom::Point;
 use crate::scene::{Anchor, Item, Rect, Weight};

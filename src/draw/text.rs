@@ -22,13 +22,48 @@ pub fn text_box(at: Point, s: &str, size_pt: f64, weight: Weight, anchor: Anchor
     Rect { min: Point::new(x0, at.y - 0.24 * em), max: Point::new(x0 + w, at.y + 0.76 * em) }
 }
 
-/// Splits `s` into lines no wider than `width_mm` at `size_pt`, at spaces.
+/// Closing punctuation: a token of only these ends the word before it.
+const CLOSING: &str = ".,;:!?)]}»›”’\"'…%";
+/// Opening punctuation: a token of only these belongs to the word after it.
+const OPENING: &str = "([{«‹„“‘¿¡";
+
+/// The words of `s` with a token of closing punctuation only (`».`, `).`)
+/// joined to the word before it and one of opening punctuation only (`«`)
+/// to the word after it, by a space, so no line starts with closing or ends
+/// with opening punctuation.
+fn units(s: &str) -> Vec<String> {
+    let only = |t: &str, set: &str| t.chars().all(|c| set.contains(c));
+    let mut out: Vec<String> = Vec::new();
+    let mut opening = String::new();
+    for t in s.split_whitespace() {
+        if only(t, CLOSING)
+            && opening.is_empty()
+            && let Some(last) = out.last_mut()
+        {
+            last.push(' ');
+            last.push_str(t);
+        } else if only(t, OPENING) {
+            opening.push_str(t);
+            opening.push(' ');
+        } else {
+            out.push(format!("{}{t}", std::mem::take(&mut opening)));
+        }
+    }
+    if !opening.is_empty() {
+        out.push(opening.trim_end().to_string());
+    }
+    out
+}
+
+/// Splits `s` into lines no wider than `width_mm` at `size_pt`, at spaces,
+/// never leaving punctuation alone at the start of a line (see [`units`]).
 /// Leading spaces (an indent in a template) are kept on every line.
 pub fn wrap(s: &str, size_pt: f64, weight: Weight, width_mm: f64) -> Vec<String> {
     let indent: String = s.chars().take_while(|c| *c == ' ').collect();
     let mut lines = Vec::new();
     let mut line = indent.clone();
-    for word in s.split_whitespace() {
+    for word in units(s) {
+        let word = word.as_str();
         let trial = if line.trim().is_empty() { format!("{line}{word}") } else { format!("{line} {word}") };
         if !line.trim().is_empty() && text_width_mm(&trial, size_pt, weight) > width_mm {
             lines.push(std::mem::replace(&mut line, format!("{indent}{word}")));
@@ -60,5 +95,27 @@ mod tests {
             assert!(text_width_mm(l, 8.0, Weight::Regular) <= 60.0, "{l}");
         }
         assert_eq!(lines.join(" "), s);
+    }
+
+    /// Issue 9: a translated line ending in a spaced closing mark (French
+    /// "rayon »." or "(voir la figure )." with a space) wrapped that mark onto
+    /// a line of its own.
+    #[test]
+    fn closing_punctuation_never_wraps_onto_its_own_line() {
+        for s in ["Mesurez la déviation du rayon ».", "Tracez la normale (voir la figure )."] {
+            let (head, tail) = s.rsplit_once(' ').expect("two words");
+            // Room for everything but the final mark: it used to go to a line of its own.
+            let w = text_width_mm(head, 8.0, Weight::Regular) + 0.2;
+            assert!(text_width_mm(s, 8.0, Weight::Regular) > w);
+            let lines = wrap(s, 8.0, Weight::Regular, w);
+            for l in &lines {
+                assert!(l.chars().any(char::is_alphanumeric), "a line of punctuation only: {lines:?}");
+                assert!(text_width_mm(l, 8.0, Weight::Regular) <= w, "{l}");
+            }
+            assert!(lines.last().is_some_and(|l| l.ends_with(tail) && l.len() > tail.len()), "{lines:?}");
+            assert_eq!(lines.join(" "), s);
+        }
+        assert_eq!(units("a « b » c ( d )."), ["a", "« b »", "c", "( d ).",]);
+        assert_eq!(units("». a («"), ["».", "a", "(«"]);
     }
 }

@@ -14,7 +14,7 @@ pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_
 
 use fit::Misfit;
 
-use crate::draw::{Drawing, leading, text, wrap};
+use crate::draw::{Drawing, Words, leading, text, wrap};
 use crate::geom::{Point, Vec2};
 use crate::paper::bands::{
     CAUTION_MM, GAP_MM, HEADER_MM, SIDE_BLOCK_MM, SIDE_BY_SIDE_FROM_MM, TEXT_BLOCK_MM,
@@ -192,6 +192,12 @@ pub fn layout(
 fn locate(m: Misfit, t: &Templates, paper: &PaperSpec, rg: &Regions) -> TextFitError {
     let place = if m.file == "common.toml" {
         t.common.places.of(&m.field)
+    } else if m.file == templates::WORDS_FILE {
+        // A key the teacher's file left out keeps the shipped text: name the shipped file.
+        match t.word_places.get(&m.field) {
+            Some(p) => p.clone(),
+            None => format!("templates/{}: field `{}`", templates::WORDS_FILE, m.field),
+        }
     } else {
         t.sheet(&m.file).places.of(&m.field)
     };
@@ -228,6 +234,7 @@ pub fn pages_for(
     let at = |m: Misfit| locate(m, t, paper, &rg);
     // Every page of the plan has the same header, text block, side block and
     // caution text, so their fit is settled once, before the tiles.
+    let w = &t.words;
     let head = header_text(p, &rg, t).map_err(at)?;
     let labels = scale_labels(&rg.side_block, t).map_err(at)?;
     let foot = caution(&rg.caution, t).map_err(at)?;
@@ -246,17 +253,18 @@ pub fn pages_for(
             min: Point::new(s.x_min - spare_x + 1.0, cy - spare_y + 1.0),
             max: Point::new(s.x_max + spare_x - 1.0, cy + spare_y - 1.0),
         };
-        let mut d: Drawing = view.student(bounds);
+        let mut d: Drawing = view.student(bounds, w);
         let mut items = std::mem::take(&mut d.items);
         if role == Role::Key {
-            items.extend(view.key(&mut d, bounds));
+            items.extend(view.key(&mut d, bounds, w));
         }
+        labels_inside(&items, &bounds, w).map_err(at)?;
         let offset =
             Vec2::new(win.min.x + (win.width() - length) / 2.0 - s.x_min, (win.min.y + win.max.y) / 2.0 - cy);
-        let mut page_items = header(kit_title, p, &rg, &head, role, None);
+        let mut page_items = header(kit_title, p, &rg, &head, role, None, w);
         page_items.push(Item::Group { clip: win, offset, items });
         page_items.extend(text_block(p, &rg.text_block, t, role).map_err(at)?);
-        page_items.extend(side_block(p, &rg.side_block, &labels, role));
+        page_items.extend(side_block(p, &rg.side_block, &labels, role, w));
         page_items.extend(foot);
         return Ok(vec![Page { width_mm: rg.page.0, height_mm: rg.page.1, name: stem, items: page_items }]);
     }
@@ -265,9 +273,11 @@ pub fn pages_for(
     let win = tr.common.drawing;
     let tiling = tiling_for(length, height, &win);
     let bounds = Rect { min: Point::new(s.x_min, s.y_min), max: Point::new(s.x_max, s.y_max) };
-    let mut d: Drawing = view.student(bounds);
+    let mut d: Drawing = view.student(bounds, w);
     let mut items = std::mem::take(&mut d.items);
-    let key_items = view.key(&mut d, bounds);
+    let key_items = view.key(&mut d, bounds, w);
+    labels_inside(&items, &bounds, w).map_err(at)?;
+    labels_inside(&key_items, &bounds, w).map_err(at)?;
     // The tiles are cut alike for the sheet and its key (the key's labels
     // count for both), so a key page lies exactly over its sheet page.
     let label_boxes: Vec<Rect> = items.iter().chain(&key_items).filter_map(label_box).collect();
@@ -285,10 +295,10 @@ pub fn pages_for(
     };
     let mut cover_text = rg.text_block;
     cover_text.max.y = cover_text.max.y.max(map_room.min.y - GAP_MM);
-    let mut cover = header(kit_title, p, &rg, &head, role, Some((0, total)));
-    cover.extend(tile_cover(&cols, &rows, &win, &map_room));
+    let mut cover = header(kit_title, p, &rg, &head, role, Some((0, total)), w);
+    cover.extend(tile_cover(&cols, &rows, &win, &map_room, w));
     cover.extend(text_block(p, &cover_text, t, role).map_err(at)?);
-    cover.extend(side_block(p, &rg.side_block, &labels, role));
+    cover.extend(side_block(p, &rg.side_block, &labels, role, w));
     cover.extend(foot.iter().cloned());
     let mut pages =
         vec![Page { width_mm: rg.page.0, height_mm: rg.page.1, name: stem.clone(), items: cover }];
@@ -296,9 +306,9 @@ pub fn pages_for(
         for (col, &left) in cols.iter().enumerate() {
             let n = row * tiling.columns + col;
             let offset = Vec2::new(win.min.x - left, win.max.y - top);
-            let mut page_items = header(kit_title, p, &tr.common, &head, role, Some((n + 1, total)));
+            let mut page_items = header(kit_title, p, &tr.common, &head, role, Some((n + 1, total)), w);
             page_items.push(Item::Group { clip: win, offset, items: items.clone() });
-            page_items.extend(tile_footer(&tr, &labels, (col, row), tiling, (n + 1, total)));
+            page_items.extend(tile_footer(&tr, &labels, (col, row), tiling, (n + 1, total), w));
             page_items.extend(foot.iter().cloned());
             pages.push(Page {
                 width_mm: rg.page.0,
@@ -309,6 +319,47 @@ pub fn pages_for(
         }
     }
     Ok(pages)
+}
+
+/// Every drawn label from `words.toml` lies inside the room labels have
+/// (`bounds`, with a 1 mm allowance, turned labels included): an edited
+/// label that the placer could only put partly outside would be cut off by
+/// the drawing window or run off the page, so it is refused with its key.
+fn labels_inside(items: &[Item], bounds: &Rect, w: &Words) -> Result<(), Misfit> {
+    let room = Rect {
+        min: Point::new(bounds.min.x - 1.0, bounds.min.y - 1.0),
+        max: Point::new(bounds.max.x + 1.0, bounds.max.y + 1.0),
+    };
+    for it in items {
+        let Item::Text { at, text: s, size_pt, weight, anchor, rotate_deg, .. } = it else { continue };
+        let b = crate::draw::text_box(*at, s, *size_pt, *weight, *anchor);
+        let (sin, cos) = rotate_deg.to_radians().sin_cos();
+        let turned: Vec<Point> = [b.min, Point::new(b.max.x, b.min.y), b.max, Point::new(b.min.x, b.max.y)]
+            .iter()
+            .map(|p| {
+                let (dx, dy) = (p.x - at.x, p.y - at.y);
+                Point::new(at.x + dx * cos - dy * sin, at.y + dx * sin + dy * cos)
+            })
+            .collect();
+        if turned.iter().all(|p| room.contains(*p)) {
+            continue;
+        }
+        // Text from the kit or from numbers alone is not the teacher's words to shorten.
+        let Some(key) = w.key_of(s) else { continue };
+        return Err(Misfit {
+            file: templates::WORDS_FILE.into(),
+            field: key.to_string(),
+            why: format!(
+                "the drawing label \"{}\" ({} characters, {:.0} mm at {size_pt} pt) finds no place inside the {:.0} × {:.0} mm drawing it labels; shorten it",
+                fit::quote(s, 40),
+                s.chars().count(),
+                crate::font::text_width_mm(s, *size_pt, *weight),
+                bounds.width(),
+                bounds.height()
+            ),
+        });
+    }
+    Ok(())
 }
 
 /// The box of a horizontal text item (a label), in its own frame.
@@ -380,12 +431,9 @@ const COVER_MAP_MM: f64 = 38.0;
 
 /// The cover's map of the drawing pages, in the cover's drawing window: every
 /// page's window, not to scale, numbered by page, with how to join them.
-fn tile_cover(cols: &[f64], rows: &[f64], win: &Rect, room: &Rect) -> Vec<Item> {
+fn tile_cover(cols: &[f64], rows: &[f64], win: &Rect, room: &Rect, w: &Words) -> Vec<Item> {
     let mut out = Vec::new();
-    let note = format!(
-        "This setup is larger than the paper: the drawing is on pages 2–{} that follow, laid out as this map of page numbers shows (not to scale). Lay each page over its neighbours until the ringed crosses lie on each other, then tape them.",
-        cols.len() * rows.len() + 1
-    );
+    let note = w.fill("cover_note", &[("last", &(cols.len() * rows.len() + 1).to_string())]);
     let lines = wrap(&note, BODY_PT, Weight::Regular, room.width() - 4.0);
     let mut y = room.max.y - 4.0;
     for l in &lines {
@@ -431,18 +479,23 @@ fn tile_footer(
     at: (usize, usize),
     tiling: Tiling,
     page: (usize, usize),
+    w: &Words,
 ) -> Vec<Item> {
     let f = tr.footer;
     let mut out = across_bar(f.min.x + 1.0, f.min.y + 6.0, labels);
-    let note = format!(
-        "Page {} of {}: column {} of {}, row {} of {} of the drawing (the map is on page 1). Lay it over its neighbours until the ringed crosses lie on each other, then tape them.",
-        page.0 + 1,
-        page.1,
-        at.0 + 1,
-        tiling.columns,
-        at.1 + 1,
-        tiling.rows
+    let s = |n: usize| n.to_string();
+    let note = w.fill(
+        "tile_footer",
+        &[
+            ("page", &s(page.0 + 1)),
+            ("pages", &s(page.1)),
+            ("column", &s(at.0 + 1)),
+            ("columns", &s(tiling.columns)),
+            ("row", &s(at.1 + 1)),
+            ("rows", &s(tiling.rows)),
+        ],
     );
+
     let lines = wrap(&note, 7.0, Weight::Regular, f.width() - 2.0);
     for (i, l) in lines.iter().enumerate() {
         out.push(text(
@@ -459,7 +512,7 @@ fn tile_footer(
 
 /// The identity box's lines (group, and variant code or sheet number), their
 /// size and the box, top right of the printable area.
-fn identity_box(p: &SheetPlan, rg: &Regions) -> (Vec<String>, f64, Rect) {
+fn identity_box(p: &SheetPlan, rg: &Regions, w: &Words) -> (Vec<String>, f64, Rect) {
     let top = rg.printable.max.y;
     let left = rg.printable.min.x;
     let right = rg.printable.max.x;
@@ -468,8 +521,8 @@ fn identity_box(p: &SheetPlan, rg: &Regions) -> (Vec<String>, f64, Rect) {
         lines.push(g.clone());
     }
     lines.push(match &p.variant {
-        Some(v) => format!("variant {v}"),
-        None => format!("sheet {}", p.number),
+        Some(v) => w.fill("identity_variant", &[("code", v)]),
+        None => w.fill("identity_sheet", &[("number", &p.number.to_string())]),
     });
     // A long group name is set smaller so the box leaves room for the heading,
     // and on narrow paper (A5) also wrapped to two lines at 7 pt.
@@ -497,9 +550,10 @@ fn identity_box(p: &SheetPlan, rg: &Regions) -> (Vec<String>, f64, Rect) {
 /// left of the identity box, or the template's heading refused.
 fn header_text(p: &SheetPlan, rg: &Regions, t: &Templates) -> Result<(String, f64), Misfit> {
     let heading = &sheet_text(p, t).heading;
-    let (_, _, bx) = identity_box(p, rg);
-    let suffix = format!(": sheet {}", p.number);
-    let line = format!("{heading}{suffix}");
+    let (_, _, bx) = identity_box(p, rg, &t.words);
+    let line = t.words.fill("heading_line", &[("heading", heading), ("number", &p.number.to_string())]);
+    // What the line adds to the heading, for the message.
+    let suffix = t.words.fill("heading_line", &[("heading", ""), ("number", &p.number.to_string())]);
     let room = bx.min.x - 3.0 - rg.printable.min.x;
     match fit::one_line(&line, &fit::HEADING_PT, Weight::Bold, room) {
         Ok(pt) => Ok((line, pt)),
@@ -534,24 +588,21 @@ fn header(
     heading: &(String, f64),
     role: Role,
     page: Option<(usize, usize)>,
+    w: &Words,
 ) -> Vec<Item> {
     let top = rg.printable.max.y;
     let left = rg.printable.min.x;
     let mut items = Vec::new();
     let role_word = match role {
-        Role::Student => "Student sheet",
-        Role::Key => "ANSWER KEY (teacher's copy)",
+        Role::Student => w.say("role_student"),
+        Role::Key => w.say("role_key"),
     };
     let piece = match &p.piece_label {
-        Some(l) => format!("{l} ({})", p.piece_id),
+        Some(l) => w.fill("piece_with_id", &[("label", l), ("id", &p.piece_id)]),
         None => p.piece_id.clone(),
     };
-    let tile_word = match page {
-        Some((n, total)) => format!(" · page {} of {total}", n + 1),
-        None => String::new(),
-    };
     // The identity box: group and variant code (or the sheet number).
-    let (lines, box_pt, bx) = identity_box(p, rg);
+    let (lines, box_pt, bx) = identity_box(p, rg, w);
     let right = rg.printable.max.x;
     items.push(Item::Box { rect: bx, fill: None, stroke: Some(Stroke::solid(0.4)) });
     let n = lines.len() as f64;
@@ -564,10 +615,16 @@ fn header(
     let (heading_line, heading_pt) = heading;
     items.push(text(Point::new(left, top - 5.0), heading_line, *heading_pt, Weight::Bold, Anchor::Start));
     // The subtitle fits left of the identity box: 8 pt, else two lines of 7 pt.
-    let subtitle = format!(
-        "{kit_title} · {piece} · light enters the {} face · {role_word}{tile_word}",
-        p.view().entry_words()
-    );
+    let entry = p.view().entry_words(w);
+    let slots =
+        [("kit", kit_title), ("piece", piece.as_str()), ("entry", entry.as_str()), ("role", role_word)];
+    let subtitle = match page {
+        Some((n, total)) => {
+            let (n, of) = ((n + 1).to_string(), total.to_string());
+            w.fill("subtitle_page", &[&slots[..], &[("page", n.as_str()), ("pages", of.as_str())]].concat())
+        }
+        None => w.fill("subtitle", &slots),
+    };
     let room = bx.min.x - 3.0 - left;
     if crate::font::text_width_mm(&subtitle, BODY_PT, Weight::Regular) <= room {
         items.push(text(Point::new(left, top - 10.5), &subtitle, BODY_PT, Weight::Regular, Anchor::Start));
@@ -612,9 +669,9 @@ fn caution(r: &Rect, t: &Templates) -> Result<Vec<Item>, Misfit> {
     Ok(out)
 }
 
-fn fill(template: &str, p: &SheetPlan) -> String {
-    let piece = p.piece_label.clone().unwrap_or_else(|| format!("piece {}", p.piece_id));
-    template.replace("{piece}", &piece).replace("{entry}", &p.view().entry_words())
+fn fill(template: &str, p: &SheetPlan, w: &Words) -> String {
+    let piece = p.piece_label.clone().unwrap_or_else(|| w.fill("piece_unnamed", &[("id", &p.piece_id)]));
+    template.replace("{piece}", &piece).replace("{entry}", &p.view().entry_words(w))
 }
 
 fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<Item>, Misfit> {
@@ -622,7 +679,7 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
     let file = p.view().template();
     let mut out = Vec::new();
     let mut y = r.max.y - 3.0;
-    let rows_text = p.view().table_rows(role == Role::Key);
+    let rows_text = p.view().table_rows(role == Role::Key, &t.words);
     let rows = rows_text.len() + 1;
     let widths = p.view().table_widths();
     // Room for each column heading: the column less 1 mm either side.
@@ -639,17 +696,17 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
     let (lines, size): (Vec<String>, f64) =
         match role {
             Role::Student => {
-                let filled: Vec<String> = st.instructions.iter().map(|l| fill(l, p)).collect();
+                let filled: Vec<String> = st.instructions.iter().map(|l| fill(l, p, &t.words)).collect();
                 let table_mm = head_min + (rows - 1) as f64 * fit::MIN_ROW_MM;
                 let b = fit::paragraphs(&filled, r.width(), r.height(), table_mm).map_err(|(i, why)| {
                     Misfit { file: file.to_string(), field: format!("instructions[{}]", i + 1), why }
                 })?;
                 (b.lines, b.size_pt)
             }
-            Role::Key => (
-                p.view().key_lines().iter().flat_map(|l| wrap(l, 6.8, Weight::Regular, r.width())).collect(),
-                6.8,
-            ),
+            Role::Key => {
+                let table_mm = head_min + (rows - 1) as f64 * fit::MIN_ROW_MM;
+                key_text(&p.view().key_lines(&t.words), r, table_mm, &t.words)?
+            }
         };
     let lead = leading(size);
     for l in &lines {
@@ -737,6 +794,34 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
         }
     }
     Ok(out)
+}
+
+/// The key's lines at 6.8 pt, or at the smallest size when they need it, so
+/// the measurement table still fits under them; else the `words.toml` key
+/// of the longest line is refused.
+fn key_text(key_lines: &[String], r: &Rect, table_mm: f64, w: &Words) -> Result<(Vec<String>, f64), Misfit> {
+    let room = r.height() - 4.0 - table_mm;
+    for pt in [6.8, fit::FLOOR_PT] {
+        let lines: Vec<String> =
+            key_lines.iter().flat_map(|l| wrap(l, pt, Weight::Regular, r.width())).collect();
+        let fits = lines.iter().all(|l| crate::font::text_width_mm(l, pt, Weight::Regular) <= r.width());
+        if fits && lines.len() as f64 * leading(pt) <= room {
+            return Ok((lines, pt));
+        }
+    }
+    let longest = key_lines.iter().max_by_key(|l| l.chars().count()).cloned().unwrap_or_default();
+    let n = key_lines.iter().map(|l| wrap(l, fit::FLOOR_PT, Weight::Regular, r.width()).len()).sum::<usize>();
+    Err(Misfit {
+        file: templates::WORDS_FILE.into(),
+        field: w.key_of(&longest).unwrap_or("?").to_string(),
+        why: format!(
+            "the answer key's text wraps to {n} lines at {} pt, the smallest size, on a {:.0} mm line, and the text block holds {:.0} above the measurement table; this is its longest line (\"{}\"); shorten it",
+            fit::FLOOR_PT,
+            r.width(),
+            (room / leading(fit::FLOOR_PT)).floor().max(0.0),
+            fit::quote(&longest, 40)
+        ),
+    })
 }
 
 /// The scale bars' three labels at their sizes: (text, pt) for the 100 mm
@@ -840,7 +925,7 @@ fn up_bar(vx: f64, vy0: f64, labels: &ScaleLabels) -> Vec<Item> {
     out
 }
 
-fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role) -> Vec<Item> {
+fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, w: &Words) -> Vec<Item> {
     // Scale checks: 100 mm across at the bottom, 50 mm up at the right.
     let y = r.min.y + 6.0;
     let mut out = across_bar(r.min.x + 1.0, y, labels);
@@ -848,9 +933,9 @@ fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role) -> Vec<
     out.extend(up_bar(vx, r.min.y + 4.0, labels));
     let upper = Rect { min: Point::new(r.min.x, y + 8.0), max: Point::new(vx - 6.0, r.max.y) };
     if role == Role::Key && upper.height() > 20.0 {
-        out.extend(p.view().key_plot(upper));
+        out.extend(p.view().key_plot(upper, w));
     } else if role == Role::Student
-        && let Some(msg) = p.view().student_note()
+        && let Some(msg) = p.view().student_note(w)
     {
         // Wrapped to the room left of the vertical scale bar, the last line where one line would be.
         let lines = wrap(&msg, BODY_PT, Weight::Regular, upper.width());

@@ -2,28 +2,29 @@
 //! guide heights, predicted crossings with tolerances and focal lengths.
 
 use super::regions;
-use crate::draw::text;
+use crate::draw::{Words, text};
 use crate::geom::Point;
 use crate::paper::PaperSpec;
 use crate::scene::{Anchor, Item, Page, Scene, Stroke, Weight};
 use crate::sheets::ClassPlan;
 
 /// The summary document.
-pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> Scene {
+pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec, t: &super::Templates) -> Scene {
+    let words = &t.words;
     let rg = regions(paper);
     let (w, h) = rg.page;
     let area = rg.printable;
     let row_h = 4.6;
     let size = 7.0;
     let cols: [(&str, f64); 9] = [
-        ("Group", 0.15),
-        ("Variant", 0.07),
-        ("Sheet", 0.05),
-        ("Piece, entry", 0.13),
-        ("Ray", 0.04),
-        ("Guide", 0.08),
-        ("Predicted (accept range)", 0.28),
-        ("Sheet values", 0.13),
+        (words.say("summary_group"), 0.15),
+        (words.say("summary_variant"), 0.07),
+        (words.say("summary_sheet"), 0.05),
+        (words.say("summary_piece"), 0.13),
+        (words.say("summary_ray"), 0.04),
+        (words.say("summary_guide"), 0.08),
+        (words.say("summary_predicted"), 0.28),
+        (words.say("summary_values"), 0.13),
         ("", 0.07),
     ];
     let mut xs = Vec::new();
@@ -32,7 +33,7 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
         xs.push(x);
         x += f * area.width();
     }
-    let rows = summary_lines(class);
+    let rows = summary_lines(class, words);
     let per_page = (((area.height() - 22.0) / row_h).floor() as usize).max(1);
     let pages = paginate(&rows, per_page);
     let pages_n = pages.len();
@@ -41,17 +42,16 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
         let mut items = vec![
             text(
                 Point::new(area.min.x, area.max.y - 5.0),
-                &format!("{kit_title}: class summary (seed {})", class.seed),
+                &words.fill("summary_title", &[("kit", kit_title), ("seed", &class.seed.to_string())]),
                 12.0,
                 Weight::Bold,
                 Anchor::Start,
             ),
             text(
                 Point::new(area.min.x, area.max.y - 10.0),
-                &format!(
-                    "page {} of {} · distances in mm, measured as on each sheet; ± is the grading tolerance along the axis",
-                    pg + 1,
-                    pages_n
+                &words.fill(
+                    "summary_subtitle",
+                    &[("page", &(pg + 1).to_string()), ("pages", &pages_n.to_string())],
                 ),
                 7.5,
                 Weight::Regular,
@@ -93,7 +93,7 @@ pub fn summary_scene(kit_title: &str, class: &ClassPlan, paper: &PaperSpec) -> S
 }
 
 /// The summary table's rows for every group's sheets, in order.
-fn summary_lines(class: &ClassPlan) -> Vec<SummaryLine> {
+fn summary_lines(class: &ClassPlan, w: &Words) -> Vec<SummaryLine> {
     let mut rows: Vec<SummaryLine> = Vec::new();
     for plans in &class.plans {
         for p in plans {
@@ -101,9 +101,9 @@ fn summary_lines(class: &ClassPlan) -> Vec<SummaryLine> {
                 p.group.clone().unwrap_or_default(),
                 p.variant.clone().unwrap_or_default(),
                 p.number.to_string(),
-                format!("{}, {}", p.piece_id, p.view().entry_words()),
+                w.fill("summary_piece_entry", &[("piece", &p.piece_id), ("entry", &p.view().entry_words(w))]),
             ];
-            for (k, cells) in p.view().summary_cells().into_iter().enumerate() {
+            for (k, cells) in p.view().summary_cells(w).into_iter().enumerate() {
                 let first = k == 0;
                 let [ray, guide, predicted, facts, more] = cells;
                 let [group, variant, sheet, piece] = head.clone();
@@ -200,11 +200,12 @@ mod tests {
             let paper = paper(orientation);
             let class = class(&paper);
             let rg = regions(&paper);
-            let scene = summary_scene("Issue 9 bench", &class, &paper);
+            let scene =
+                summary_scene("Issue 9 bench", &class, &paper, &crate::layout::Templates::shipped().unwrap());
             assert!(scene.pages.len() >= 2, "the fixture's summary runs over pages");
             // Continuation pages in the rows themselves (the fixture has 3- and
             // 5-ray sheets, so some page opens inside a sheet).
-            let lines = summary_lines(&class);
+            let lines = summary_lines(&class, &Words::shipped());
             let per_page = (((rg.printable.height() - 22.0) / 4.6).floor() as usize).max(1);
             continued += lines.chunks(per_page).filter(|c| !c[0].starts_sheet).count();
             for (n, page) in scene.pages.iter().enumerate() {

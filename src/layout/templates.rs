@@ -3,6 +3,12 @@
 use serde::Deserialize;
 use toml::Spanned;
 
+use crate::draw::Words;
+use crate::draw::words::slots_in;
+
+/// The file holding every printed word that is not a sheet's own text.
+pub const WORDS_FILE: &str = "words.toml";
+
 /// Text for one sheet kind.
 #[derive(Debug, Clone)]
 pub struct SheetText {
@@ -22,6 +28,11 @@ pub struct SheetText {
 pub struct Places(std::collections::BTreeMap<String, String>);
 
 impl Places {
+    /// Where `field` was written, if the file gave it.
+    pub fn get(&self, field: &str) -> Option<&String> {
+        self.0.get(field)
+    }
+
     /// The start of an error about `field`: file, line, column and field name.
     pub fn of(&self, field: &str) -> String {
         self.0.get(field).cloned().unwrap_or_else(|| format!("field `{field}`"))
@@ -50,6 +61,11 @@ pub struct Templates {
     pub sheets: std::collections::BTreeMap<&'static str, SheetText>,
     /// Every sheet.
     pub common: CommonText,
+    /// Every other printed word (labels, key lines, headers, summary pages):
+    /// `words.toml`, the shipped text under any key an edited file leaves out.
+    pub words: Words,
+    /// Where each key of `words.toml` was written, for errors.
+    pub word_places: Places,
 }
 
 /// The template files, as named in `templates/`, with their shipped text.
@@ -61,6 +77,7 @@ const SHIPPED: &[(&str, &str)] = &[
     ("prism.toml", include_str!("../../templates/prism.toml")),
     ("prism-turn.toml", include_str!("../../templates/prism-turn.toml")),
     ("common.toml", include_str!("../../templates/common.toml")),
+    ("words.toml", crate::draw::words::SHIPPED),
 ];
 
 /// The template files, as named in `templates/`.
@@ -72,6 +89,7 @@ pub const FILES: &[&str] = &[
     "prism.toml",
     "prism-turn.toml",
     "common.toml",
+    "words.toml",
 ];
 
 /// The shipped text of a template file (`None` for an unknown name).
@@ -240,6 +258,81 @@ fn check_common(src: &Source<'_>) -> Result<CommonText, String> {
     })
 }
 
+/// `words.toml` checked against the shipped one: every key known, the same
+/// `{slots}` as the shipped text (a slot left out would drop a number; an
+/// unknown one would print as written), printable text. Keys left out keep
+/// the shipped text.
+fn check_words(src: &Source<'_>) -> Result<(Words, Places), String> {
+    let shipped: std::collections::BTreeMap<String, String> = toml::from_str(crate::draw::words::SHIPPED)
+        .map_err(|e| format!("templates/{WORDS_FILE}: the shipped file does not parse: {}", e.message()))?;
+    let given: std::collections::BTreeMap<Spanned<String>, Spanned<String>> = src.parse()?;
+    let mut text = shipped.clone();
+    let mut places = std::collections::BTreeMap::new();
+    for (key, value) in &given {
+        let k = key.get_ref();
+        let Some(theirs) = shipped.get(k) else {
+            let near = nearest_key(k, shipped.keys());
+            return Err(src.error(
+                &key.span(),
+                k,
+                &format!(
+                    "no such key in {WORDS_FILE}{}; `raysheet templates --out DIR` writes the file with every key",
+                    near.map(|n| format!(" (did you mean `{n}`?)")).unwrap_or_default()
+                ),
+            ));
+        };
+        src.printable(value, k)?;
+        let want = slots_in(theirs);
+        let have = slots_in(value.get_ref());
+        let list = |v: &[String]| {
+            if v.is_empty() {
+                "none".to_string()
+            } else {
+                v.iter().map(|s| format!("{{{s}}}")).collect::<Vec<_>>().join(", ")
+            }
+        };
+        if let Some(extra) = have.iter().find(|s| !want.contains(s)) {
+            return Err(src.error(
+                &value.span(),
+                k,
+                &format!("unknown placeholder {{{extra}}}; this text takes {}", list(&want)),
+            ));
+        }
+        if let Some(missing) = want.iter().find(|s| !have.contains(s)) {
+            return Err(src.error(
+                &value.span(),
+                k,
+                &format!(
+                    "placeholder {{{missing}}} is missing, so its value would not be printed; this text takes {}",
+                    list(&want)
+                ),
+            ));
+        }
+        places.insert(k.clone(), src.place(&value.span(), k));
+        text.insert(k.clone(), value.get_ref().clone());
+    }
+    Ok((Words::from_map(text), Places(places)))
+}
+
+/// The shipped key closest to a mistyped one (by edit distance, at most a third of its length).
+fn nearest_key<'a>(key: &str, keys: impl Iterator<Item = &'a String>) -> Option<&'a String> {
+    let distance = |a: &str, b: &str| {
+        let b: Vec<char> = b.chars().collect();
+        let mut row: Vec<usize> = (0..=b.len()).collect();
+        for (i, ca) in a.chars().enumerate() {
+            let mut prev = row[0];
+            row[0] = i + 1;
+            for (j, cb) in b.iter().enumerate() {
+                let cur = row[j + 1];
+                row[j + 1] = (prev + usize::from(ca != *cb)).min(row[j] + 1).min(row[j + 1] + 1);
+                prev = cur;
+            }
+        }
+        row[b.len()]
+    };
+    keys.map(|k| (distance(key, k), k)).filter(|(d, _)| *d * 3 <= key.chars().count()).min().map(|(_, k)| k)
+}
+
 impl Templates {
     /// The templates shipped in `templates/`. An error names the template file;
     /// the `shipped_templates_parse` test keeps them valid.
@@ -264,11 +357,13 @@ impl Templates {
         let (shown, text) = get("common.toml");
         let common = check_common(&Source { shown: &shown, text: &text })?;
         let mut sheets = std::collections::BTreeMap::new();
-        for name in FILES.iter().filter(|n| **n != "common.toml") {
+        for name in FILES.iter().filter(|n| !["common.toml", WORDS_FILE].contains(*n)) {
             let (shown, text) = get(name);
             sheets.insert(*name, check_sheet(&Source { shown: &shown, text: &text })?);
         }
-        Ok(Templates { sheets, common })
+        let (shown, text) = get(WORDS_FILE);
+        let (words, word_places) = check_words(&Source { shown: &shown, text: &text })?;
+        Ok(Templates { sheets, common, words, word_places })
     }
 
     /// The text of one sheet template. A name not in [`FILES`] is a bug in a
@@ -358,10 +453,48 @@ mod tests {
         }
     }
 
+    /// Issue 9: words.toml errors name the file, line, column and key, and
+    /// say what is accepted.
+    #[test]
+    fn words_errors_name_the_key_and_what_is_accepted() {
+        let cases = [
+            ("optical_axes = \"x\"\n", "1:1: field `optical_axes`", "did you mean `optical_axis`?"),
+            ("\n  normal = \"x\"\nray_box = 3\n", "3:11", "string"),
+            (
+                "not_graded = \"{valeur} (non noté)\"\n",
+                "1:14: field `not_graded`",
+                "unknown placeholder {valeur}; this text takes {value}",
+            ),
+            (
+                "identity_variant = \"variante\"\n",
+                "1:20: field `identity_variant`",
+                "placeholder {code} is missing",
+            ),
+            ("optical_axis = \"漢\"\n", "1:16: field `optical_axis`", "U+6F22"),
+        ];
+        for (text, at, words) in cases {
+            let err = super::Templates::with_overrides(&one("words.toml", text)).unwrap_err();
+            assert!(err.starts_with(&format!("mine/words.toml:{at}")), "{err}");
+            assert!(err.contains(words) && !err.contains('\n'), "{err}");
+        }
+        let t = super::Templates::with_overrides(&one(
+            "words.toml",
+            "# nur eins\noptical_axis = \"optische Achse\"\nnot_graded = \"{value} (ohne Wertung)\"\n",
+        ))
+        .unwrap();
+        assert_eq!(t.words.say("optical_axis"), "optische Achse");
+        assert_eq!(t.words.fill("not_graded", &[("value", "12.5")]), "12.5 (ohne Wertung)");
+        assert_eq!(t.words.say("normal"), "normal", "a key left out keeps the shipped text");
+        assert_eq!(
+            t.word_places.get("optical_axis").map(String::as_str),
+            Some("mine/words.toml:2:16: field `optical_axis`")
+        );
+    }
+
     #[test]
     fn shipped_templates_parse() {
         let t = super::Templates::shipped().unwrap();
-        for name in super::FILES.iter().filter(|n| **n != "common.toml") {
+        for name in super::FILES.iter().filter(|n| !["common.toml", "words.toml"].contains(*n)) {
             assert!(!t.sheet(name).instructions.is_empty(), "{name}");
             assert_eq!(t.sheet(name).columns.len(), 4, "{name}");
         }

@@ -233,7 +233,7 @@ pub fn build_class_with(
     if formats.pdf {
         out.push(Output { path: "sheets.pdf".into(), bytes: render_pdf(&all_sheets)? });
         out.push(Output { path: "keys.pdf".into(), bytes: render_pdf(&all_keys)? });
-        let summary = layout::summary_scene(&kit.title, class, paper);
+        let summary = layout::summary_scene(&kit.title, class, paper, templates);
         out.push(Output { path: "summary.pdf".into(), bytes: render_pdf(&summary)? });
     }
     out.push(Output { path: "summary.csv".into(), bytes: summary::summary_csv(class).into_bytes() });

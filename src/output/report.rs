@@ -87,7 +87,7 @@ pub fn sheet_table(p: &SheetPlan) -> String {
         p.number,
         p.kind.as_str(),
         p.piece_id,
-        p.view().entry_words()
+        p.view().entry_words(&crate::draw::Words::shipped())
     );
     s.push_str(&p.view().report());
     for w in &p.warnings {

@@ -3,6 +3,7 @@
 //! piece, with its angles, deviation, lateral shift and tolerances, and the
 //! safe band of angles.
 
+use crate::draw::Words;
 use crate::geom::{Point, Ray, Shape, Vec2};
 use crate::optics::measure::{self, NotDefined};
 use crate::optics::{End, EventKind, Trace, trace};
@@ -331,37 +332,39 @@ impl<F: Copy + PartialEq> AngledSetup<F> {
     }
 }
 
-/// Plain words for what ends a band at angle `at_deg`: `lower` for the low end.
-pub fn limit_words(limit: AngleLimit, at_deg: f64, lower: bool, rules: &AngleRules, crit_deg: f64) -> String {
-    let side = if lower { "below" } else { "above" };
+/// Plain words, in `w`, for what ends a band at angle `at_deg`: `lower` for the low end.
+pub fn limit_words(
+    limit: AngleLimit,
+    at_deg: f64,
+    lower: bool,
+    rules: &AngleRules,
+    crit_deg: f64,
+    w: &Words,
+) -> String {
+    let side = if lower { w.say("band_below") } else { w.say("band_above") };
     let a = format!("{at_deg:.1}°");
+    let s = [("side", side), ("at", a.as_str())];
+    let with = |key: &str, more: &[(&str, &str)]| w.fill(key, &[&s[..], more].concat());
+    let crit = format!("{crit_deg:.1}");
     match limit {
-        AngleLimit::WrongPath => {
-            format!("{side} {a} the light no longer takes the path the sheet measures")
+        AngleLimit::WrongPath => with("angle_wrong_path", &[]),
+        AngleLimit::CriticalMargin => {
+            with("angle_critical", &[("margin", &rules.critical_margin_deg.to_string()), ("critical", &crit)])
         }
-        AngleLimit::CriticalMargin => format!(
-            "{side} {a} the ray meets the far face within {}° of the critical angle ({crit_deg:.1}°)",
-            rules.critical_margin_deg
+        AngleLimit::ReflectionMargin => with(
+            "angle_reflection",
+            &[("margin", &rules.reflection_margin_deg.to_string()), ("critical", &crit)],
         ),
-        AngleLimit::ReflectionMargin => format!(
-            "{side} {a} the total reflection the sheet relies on comes within {}° of the critical angle ({crit_deg:.1}°)",
-            rules.reflection_margin_deg
+        AngleLimit::Grazing => with("angle_grazing", &[("widths", &rules.max_footprint_widths.to_string())]),
+        AngleLimit::NearCorner => with("angle_corner", &[]),
+        AngleLimit::SmallShift => with(
+            "angle_small_shift",
+            &[
+                ("ratio", &rules.min_shift_ratio.to_string()),
+                ("range", &format!("{:.1}", rules.across_error_mm() + rules.ruler_mm)),
+            ],
         ),
-        AngleLimit::Grazing => format!(
-            "{side} {a} the ray meets the face so obliquely that its spot is over {} ray widths long",
-            rules.max_footprint_widths
-        ),
-        AngleLimit::NearCorner => {
-            format!("{side} {a} the ray passes within a ray width and a half of a corner of the piece")
-        }
-        AngleLimit::SmallShift => format!(
-            "{side} {a} the sideways shift is under {} times its ±{:.1} mm accept range",
-            rules.min_shift_ratio,
-            rules.across_error_mm() + rules.ruler_mm
-        ),
-        AngleLimit::RangeEnd => {
-            format!("the band stops at {a}, the end of the angles this kind of sheet uses")
-        }
+        AngleLimit::RangeEnd => with("angle_range_end", &[]),
     }
 }
 
@@ -412,6 +415,17 @@ impl<F: Copy + PartialEq> AngledPlan<F> {
         AngledPlan::in_band(setup, rules, band, angles, choose)
     }
 
+    /// Why the band ends where it ends (low end, high end), in `w`.
+    pub fn band_words_in(&self, w: &Words) -> Option<(String, String)> {
+        let crit = (1.0 / self.setup.index).asin().to_degrees();
+        self.band.as_ref().map(|b| {
+            (
+                limit_words(b.min_limit, b.min, true, &self.rules, crit, w),
+                limit_words(b.max_limit, b.max, false, &self.rules, crit, w),
+            )
+        })
+    }
+
     /// [`AngledPlan::new`] with the band already worked out (class sets reuse it).
     pub fn in_band(
         setup: AngledSetup<F>,
@@ -421,10 +435,12 @@ impl<F: Copy + PartialEq> AngledPlan<F> {
         choose: impl Fn(Option<&Band<AngleLimit>>) -> Vec<f64>,
     ) -> AngledPlan<F> {
         let crit = (1.0 / setup.index).asin().to_degrees();
+        // The shipped words, for the answer file and reports (which stay English).
+        let shipped = Words::shipped();
         let band_words = band.as_ref().map(|b| {
             (
-                limit_words(b.min_limit, b.min, true, &rules, crit),
-                limit_words(b.max_limit, b.max, false, &rules, crit),
+                limit_words(b.min_limit, b.min, true, &rules, crit, &shipped),
+                limit_words(b.max_limit, b.max, false, &rules, crit, &shipped),
             )
         });
         let mut list: Vec<f64> = match angles {

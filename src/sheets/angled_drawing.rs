@@ -12,7 +12,8 @@ use crate::draw::style::{
     EXTENSION_DASH, GUIDE_W, LABEL_PT, LINE_DASH, OUTLINE_W, RAY_GRAY, RAY_W, THIN_W, VALUE_PT,
 };
 use crate::draw::{
-    AngleScale, AngleTicks, Placer, angle_ticks, path_points, place_lines_near, place_near, shape_outline,
+    AngleScale, AngleTicks, Placer, Words, angle_ticks, path_points, place_lines_near, place_near,
+    shape_outline,
 };
 use crate::geom::{Point, Ray, Vec2};
 use crate::optics::{End, EventKind};
@@ -560,7 +561,12 @@ pub fn extent<F: Copy + PartialEq>(plan: &AngledPlan<F>) -> (Point, Point) {
 /// Labels go only inside `bounds` and keep off every line, tick and label,
 /// the key's lines included (so the key can be laid over the sheet); one that
 /// finds no room is left out. The placer keeps what was taken, for [`key`].
-pub fn student<F: Copy + PartialEq>(plan: &AngledPlan<F>, bounds: &Rect, placer: &mut Placer) -> Vec<Item> {
+pub fn student<F: Copy + PartialEq>(
+    plan: &AngledPlan<F>,
+    bounds: &Rect,
+    placer: &mut Placer,
+    w: &Words,
+) -> Vec<Item> {
     let sk = sketch(plan);
     let keys = key_rays(plan);
     let mut items = vec![shape_outline(&plan.setup.shape, Stroke::solid(OUTLINE_W))];
@@ -597,9 +603,9 @@ pub fn student<F: Copy + PartialEq>(plan: &AngledPlan<F>, bounds: &Rect, placer:
         guide_label(&mut items, placer, bounds, &s, g.start, g.dir, prefer);
     }
     if let Some(g) = sk.guides.iter().max_by(|a, b| a.incidence_deg.abs().total_cmp(&b.incidence_deg.abs())) {
-        label(&mut items, placer, bounds, "ray box", LABEL_PT, g.start - g.dir * 0.5, -g.dir);
+        label(&mut items, placer, bounds, w.say("ray_box"), LABEL_PT, g.start - g.dir * 0.5, -g.dir);
     }
-    label(&mut items, placer, bounds, "normal", LABEL_PT, n_out, sk.outward);
+    label(&mut items, placer, bounds, w.say("normal"), LABEL_PT, n_out, sk.outward);
     items
 }
 
@@ -618,7 +624,12 @@ pub fn student<F: Copy + PartialEq>(plan: &AngledPlan<F>, bounds: &Rect, placer:
 ///
 /// Pass the placer [`student`] filled, so the key's labels keep off the
 /// sheet's lines and labels too.
-pub fn key<F: FaceName + PartialEq>(plan: &AngledPlan<F>, bounds: &Rect, placer: &mut Placer) -> Vec<Item> {
+pub fn key<F: FaceName + PartialEq>(
+    plan: &AngledPlan<F>,
+    bounds: &Rect,
+    placer: &mut Placer,
+    w: &Words,
+) -> Vec<Item> {
     let keys = key_rays(plan);
     block_key_lines(placer, &keys);
     let mut items = Vec::new();
@@ -682,7 +693,10 @@ pub fn key<F: FaceName + PartialEq>(plan: &AngledPlan<F>, bounds: &Rect, placer:
             }
             (Show::Turn, _, Some((a, b))) => {
                 if let Ok(d) = r.deviation_deg {
-                    let s = format!("{}: turned through {}° ± {}°", k.letter, fmt1(d), fmt1(r.tolerance_deg));
+                    let s = w.fill(
+                        "turned_label",
+                        &[("ray", &k.letter), ("value", &fmt1(d)), ("range", &fmt1(r.tolerance_deg))],
+                    );
                     let u = (b - a).normalized().unwrap_or(Vec2::new(1.0, 0.0));
                     label(&mut items, placer, bounds, &s, VALUE_PT, a + (b - a) * 0.7, u.perp());
                 }
@@ -724,15 +738,15 @@ pub fn key<F: FaceName + PartialEq>(plan: &AngledPlan<F>, bounds: &Rect, placer:
         let n = (outer - inner).normalized().unwrap_or_default();
         label_block(&mut items, placer, bounds, &emergences, &[(inner, -n), (outer, n)]);
     }
-    total_reflection_labels(&mut items, placer, bounds, plan, &keys);
+    total_reflection_labels(&mut items, placer, bounds, plan, &keys, w);
     for (k, r) in keys.iter().zip(&plan.rays) {
         if !r.path_ok {
-            let (words, at) = what_happened(plan, r);
+            let (words, at) = what_happened(plan, r, w);
             label(
                 &mut items,
                 placer,
                 bounds,
-                &format!("{}: {words}", k.letter),
+                &w.fill("what_happened", &[("ray", &k.letter), ("what", &words)]),
                 VALUE_PT,
                 at,
                 Vec2::default(),
@@ -792,6 +806,7 @@ fn total_reflection_labels<F: Copy>(
     bounds: &Rect,
     plan: &AngledPlan<F>,
     keys: &[KeyRay],
+    w: &Words,
 ) {
     let mut groups: Vec<(Point, Vec<&str>)> = Vec::new();
     for (k, r) in keys.iter().zip(&plan.rays) {
@@ -802,19 +817,23 @@ fn total_reflection_labels<F: Copy>(
         }
     }
     for (p, letters) in groups {
-        let s = format!("{}: total internal reflection", letters.join(", "));
+        let s = w.fill("total_reflection_label", &[("rays", &letters.join(", "))]);
         label(items, placer, bounds, &s, VALUE_PT, p, Vec2::default());
     }
 }
 
 /// Plain words for where a ray leaves the sheet's expected path, and the
 /// point where it does so.
-fn what_happened<F: FaceName + PartialEq>(plan: &AngledPlan<F>, r: &AngledRay<F>) -> (String, Point) {
+fn what_happened<F: FaceName + PartialEq>(
+    plan: &AngledPlan<F>,
+    r: &AngledRay<F>,
+    w: &Words,
+) -> (String, Point) {
     let s = &plan.setup;
     let ev = &r.trace.events;
-    let Some(first) = ev.first() else { return ("misses the piece".into(), s.entry_point) };
+    let Some(first) = ev.first() else { return (w.say("happened_misses").into(), s.entry_point) };
     if first.kind != EventKind::Enter || first.face != s.entry_face {
-        return (format!("meets {} first", first.face.words()), first.at);
+        return (w.fill("happened_meets_first", &[("face", first.face.words(w))]), first.at);
     }
     let (reflect_at, exit): (&[F], F) = match &s.expected {
         Expected::Refract { exit } => (&[], *exit),
@@ -831,19 +850,19 @@ fn what_happened<F: FaceName + PartialEq>(plan: &AngledPlan<F>, r: &AngledRay<F>
             continue;
         }
         let words = match (e.kind, expected) {
-            (EventKind::TotalReflection, _) => format!("totally reflected at {}", e.face.words()),
+            (EventKind::TotalReflection, _) => w.fill("happened_reflected", &[("face", e.face.words(w))]),
             (EventKind::Leave, Some((f, EventKind::TotalReflection))) if f == e.face => {
-                format!("leaves through {} instead of being totally reflected", e.face.words())
+                w.fill("happened_escapes", &[("face", e.face.words(w))])
             }
-            (EventKind::Leave, _) => format!("leaves through {}", e.face.words()),
-            (EventKind::Enter, _) => format!("enters again at {}", e.face.words()),
+            (EventKind::Leave, _) => w.fill("happened_leaves", &[("face", e.face.words(w))]),
+            (EventKind::Enter, _) => w.fill("happened_enters_again", &[("face", e.face.words(w))]),
         };
         return (words, e.at);
     }
     let last = ev[ev.len() - 1].at;
     match r.trace.end {
-        End::Trapped => ("stays trapped inside the piece".into(), last),
-        End::Missed | End::Left { .. } => ("does not take the path the sheet measures".into(), last),
+        End::Trapped => (w.say("happened_trapped").into(), last),
+        End::Missed | End::Left { .. } => (w.say("happened_off_path").into(), last),
     }
 }
 
@@ -885,8 +904,9 @@ pub(super) mod tests {
         let (lo, hi) = extent(plan);
         let bounds = Rect { min: lo, max: hi };
         let mut placer = Placer::default();
-        let s = student(plan, &bounds, &mut placer);
-        let k = key(plan, &bounds, &mut placer);
+        let w = Words::shipped();
+        let s = student(plan, &bounds, &mut placer, &w);
+        let k = key(plan, &bounds, &mut placer, &w);
         (bounds, s, k)
     }
 
@@ -1004,8 +1024,9 @@ pub(super) mod tests {
         let plan = block_plan();
         let bounds = Rect::from_corners(Point::new(-40.0, -40.0), Point::new(60.0, 40.0));
         let mut placer = Placer::default();
-        let s = student(&plan, &bounds, &mut placer);
-        let k = key(&plan, &bounds, &mut placer);
+        let w = Words::shipped();
+        let s = student(&plan, &bounds, &mut placer, &w);
+        let k = key(&plan, &bounds, &mut placer, &w);
         for (t, b, _) in texts(&[s, k].concat()) {
             assert!(bounds.contains(b.min) && bounds.contains(b.max), "{t:?} {b:?}");
         }

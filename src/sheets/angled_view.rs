@@ -7,6 +7,7 @@ use serde_json::{Map, Value, json};
 
 use super::SummaryRow;
 use super::angled::{AngledPlan, AngledRay, Expected};
+use crate::draw::Words;
 use crate::kit::{KitError, SheetEntry};
 use crate::optics::{BlockFace, End, EventKind, PrismFace};
 use crate::plan::fmt1;
@@ -15,19 +16,19 @@ use crate::plan::fmt1;
 pub trait FaceName: Copy + PartialEq {
     /// The answer-file word for the face.
     fn name(self) -> &'static str;
-    /// Words for a sentence: "the second side".
-    fn words(self) -> &'static str;
+    /// Words for a sentence, in `w`: "the second side".
+    fn words(self, w: &Words) -> &str;
 }
 
 impl FaceName for BlockFace {
     fn name(self) -> &'static str {
         self.as_str()
     }
-    fn words(self) -> &'static str {
+    fn words(self, w: &Words) -> &str {
         match self {
-            BlockFace::Entry => "the entry face",
-            BlockFace::Exit => "the far face",
-            BlockFace::End => "an end of the block",
+            BlockFace::Entry => w.say("face_block_entry"),
+            BlockFace::Exit => w.say("face_block_far"),
+            BlockFace::End => w.say("face_block_end"),
         }
     }
 }
@@ -36,11 +37,11 @@ impl FaceName for PrismFace {
     fn name(self) -> &'static str {
         self.as_str()
     }
-    fn words(self) -> &'static str {
+    fn words(self, w: &Words) -> &str {
         match self {
-            PrismFace::SideA => "the first side",
-            PrismFace::SideB => "the second side",
-            PrismFace::Base => "the base",
+            PrismFace::SideA => w.say("face_prism_first"),
+            PrismFace::SideB => w.say("face_prism_second"),
+            PrismFace::Base => w.say("face_prism_base"),
         }
     }
 }
@@ -84,11 +85,46 @@ pub fn graded<F: FaceName>(r: &AngledRay<F>) -> bool {
     r.path_ok && r.in_band
 }
 
-/// "value ± tol unit" or the reason there is no value.
-pub fn with_range(v: &Result<f64, crate::optics::measure::NotDefined>, tol: f64, unit: &str) -> String {
+/// "value ± tol unit" or the reason there is no value, in `w`.
+pub fn with_range(
+    v: &Result<f64, crate::optics::measure::NotDefined>,
+    tol: f64,
+    unit: &str,
+    w: &Words,
+) -> String {
     match v {
         Ok(x) => format!("{} ± {} {unit}", fmt1(*x), fmt1(tol)).replace(" °", "°"),
-        Err(e) => e.words().to_string(),
+        Err(e) => undefined_words(*e, w).to_string(),
+    }
+}
+
+/// The key's line on the safe band of angles: its ends and why, in `w`.
+pub fn band_line(
+    band: &crate::plan::scan::Band<super::angled::AngleLimit>,
+    lo: &str,
+    hi: &str,
+    w: &Words,
+) -> String {
+    w.fill(
+        "angle_band",
+        &[
+            ("min", &format!("{:.1}", band.min)),
+            ("max", &format!("{:.1}", band.max)),
+            ("lower", lo),
+            ("upper", hi),
+        ],
+    )
+}
+
+/// Printed words, in `w`, for why a measurement has no value.
+pub fn undefined_words(e: crate::optics::measure::NotDefined, w: &Words) -> &str {
+    use crate::optics::measure::NotDefined;
+    match e {
+        NotDefined::Missed => w.say("undefined_missed"),
+        NotDefined::Trapped => w.say("undefined_trapped"),
+        NotDefined::Parallel => w.say("undefined_parallel"),
+        NotDefined::NotParallel => w.say("undefined_not_parallel"),
+        NotDefined::NotAtFace => w.say("undefined_not_at_face"),
     }
 }
 
@@ -283,8 +319,9 @@ pub fn angle_notes(number: usize, fixed: bool, options: usize, groups: usize) ->
 pub fn student_drawing<F: FaceName>(
     plan: &AngledPlan<F>,
     bounds: crate::scene::Rect,
+    w: &Words,
 ) -> crate::draw::Drawing {
     let mut d = crate::draw::Drawing::default();
-    d.items = super::angled_drawing::student(plan, &bounds, &mut d.placer);
+    d.items = super::angled_drawing::student(plan, &bounds, &mut d.placer, w);
     d
 }

@@ -10,7 +10,7 @@ use super::angled_view::{self as av, angle, with_range};
 use super::{
     Choice, Detail, Enter, Kind, Prepared, Setup, SheetKind, SheetPlan, SheetSpec, SheetView, SummaryRow,
 };
-use crate::draw::Drawing;
+use crate::draw::{Drawing, Words};
 use crate::geom::{Point, Vec2};
 use crate::kit::{Kit, KitError, SheetEntry};
 use crate::optics::{Block, BlockFace, Piece};
@@ -218,61 +218,72 @@ impl SheetView for BlockPlan {
     fn extent(&self) -> Setup {
         self.setup
     }
-    fn student(&self, bounds: Rect) -> Drawing {
-        av::student_drawing(&self.plan, bounds)
+    fn student(&self, bounds: Rect, w: &Words) -> Drawing {
+        av::student_drawing(&self.plan, bounds, w)
     }
-    fn key(&self, base: &mut Drawing, bounds: Rect) -> Vec<Item> {
-        super::angled_drawing::key(&self.plan, &bounds, &mut base.placer)
+    fn key(&self, base: &mut Drawing, bounds: Rect, w: &Words) -> Vec<Item> {
+        super::angled_drawing::key(&self.plan, &bounds, &mut base.placer, w)
     }
     fn template(&self) -> &'static str {
         "block.toml"
     }
-    fn entry_words(&self) -> String {
-        format!("{} mm", crate::plan::fmt_mm(self.block.height_mm))
+    fn entry_words(&self, w: &Words) -> String {
+        w.fill("entry_block", &[("length", &crate::plan::fmt_mm(self.block.height_mm))])
     }
     fn table_widths(&self) -> [f64; 4] {
         [0.09, 0.21, 0.35, 0.35]
     }
-    fn table_rows(&self, key: bool) -> Vec<Vec<String>> {
+    fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>> {
         self.plan
             .rays
             .iter()
             .map(|r| {
                 let mut row = vec![r.letter.clone(), angle(r.incidence_deg)];
                 if key {
-                    row.push(with_range(&r.refraction_deg, r.refraction_tolerance_deg, "°"));
-                    row.push(with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm"));
+                    row.push(with_range(&r.refraction_deg, r.refraction_tolerance_deg, "°", w));
+                    row.push(with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm", w));
                 }
                 row
             })
             .collect()
     }
-    fn key_lines(&self) -> Vec<String> {
+    fn key_lines(&self, w: &Words) -> Vec<String> {
         let b = &self.block;
-        let mut v = vec![format!(
-            "Snell's law at the entry face: sin i = n sin r with n = {}. The faces are parallel, so the ray leaves at i again, parallel to the incoming ray, shifted sideways by d = t·sin(i − r)/cos r with t = {} mm.",
-            b.index, b.thickness_mm
+        let mut v = vec![w.fill(
+            "block_snell",
+            &[("index", &b.index.to_string()), ("thickness", &b.thickness_mm.to_string())],
         )];
-        if let (Some(band), Some((lo, hi))) = (&self.plan.band, &self.plan.band_words) {
-            v.push(format!("Safe band i = {:.1}°–{:.1}°: {lo}; {hi}.", band.min, band.max));
+        if let (Some(band), Some((lo, hi))) = (&self.plan.band, self.plan.band_words_in(w)) {
+            v.push(av::band_line(band, &lo, &hi, w));
         }
-        v.push(format!(
-            "Accept ranges: angles ±{:.1}° or more (a ±0.5° protractor reading plus a ±{:.1} mm slip at each end of the line drawn); shift ±{:.1} mm (the ray's line placed to ±{:.1} mm, a ruler read to ±0.5 mm).",
-            self.plan.rays.iter().map(|r| r.refraction_tolerance_deg).fold(f64::INFINITY, f64::min).min(99.0),
-            self.plan.rules.across_error_mm(),
-            self.plan.rules.across_error_mm() + self.plan.rules.ruler_mm,
-            self.plan.rules.across_error_mm()
+        let slip = format!("{:.1}", self.plan.rules.across_error_mm());
+        v.push(w.fill(
+            "block_accept",
+            &[
+                (
+                    "angle",
+                    &format!(
+                        "{:.1}",
+                        self.plan
+                            .rays
+                            .iter()
+                            .map(|r| r.refraction_tolerance_deg)
+                            .fold(f64::INFINITY, f64::min)
+                            .min(99.0)
+                    ),
+                ),
+                ("slip", &slip),
+                ("shift", &format!("{:.1}", self.plan.rules.across_error_mm() + self.plan.rules.ruler_mm)),
+                ("placed", &slip),
+            ],
         ));
         v
     }
-    fn key_plot(&self, _rect: Rect) -> Vec<Item> {
+    fn key_plot(&self, _rect: Rect, _w: &Words) -> Vec<Item> {
         Vec::new()
     }
-    fn student_note(&self) -> Option<String> {
-        Some(format!(
-            "Index from your angles, n = sin i / sin r: ______ (the block is {} mm thick)",
-            self.block.thickness_mm
-        ))
+    fn student_note(&self, w: &Words) -> Option<String> {
+        Some(w.fill("block_note", &[("thickness", &self.block.thickness_mm.to_string())]))
     }
     fn answers(&self) -> serde_json::Value {
         json!({
@@ -284,7 +295,7 @@ impl SheetView for BlockPlan {
     fn summary_rows(&self) -> Vec<SummaryRow> {
         av::summary_rows(&self.plan, true)
     }
-    fn summary_cells(&self) -> Vec<[String; 5]> {
+    fn summary_cells(&self, w: &Words) -> Vec<[String; 5]> {
         self.plan
             .rays
             .iter()
@@ -294,8 +305,8 @@ impl SheetView for BlockPlan {
                     angle(r.incidence_deg),
                     format!(
                         "r {}, d {}",
-                        with_range(&r.refraction_deg, r.refraction_tolerance_deg, "°"),
-                        with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm")
+                        with_range(&r.refraction_deg, r.refraction_tolerance_deg, "°", w),
+                        with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm", w)
                     ),
                     format!("t {} mm", self.block.thickness_mm),
                     format!("n {}", self.block.index),

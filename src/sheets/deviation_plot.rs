@@ -5,7 +5,7 @@ use super::angled::AngledPlan;
 use super::angled_drawing::{block_spot, fmt1, label};
 use crate::draw::axes::{nice_step, tick_values};
 use crate::draw::style::{SMALL_PT, VALUE_PT};
-use crate::draw::{Placer, text};
+use crate::draw::{Placer, Words, text};
 use crate::geom::{Point, Vec2};
 use crate::scene::{Anchor, Item, MarkerShape, Rect, Stroke, Weight};
 
@@ -15,7 +15,7 @@ use crate::scene::{Anchor, Item, MarkerShape, Rect, Stroke, Weight};
 /// the curve marked and named (refined by a parabola through the three
 /// samples round it). Empty when the plan has no curve (a right-angle
 /// prism) or `rect` is smaller than 30 × 25 mm.
-pub fn deviation_plot<F: Copy + PartialEq>(plan: &AngledPlan<F>, rect: Rect) -> Vec<Item> {
+pub fn deviation_plot<F: Copy + PartialEq>(plan: &AngledPlan<F>, rect: Rect, w: &Words) -> Vec<Item> {
     let pts: Vec<(f64, f64)> =
         plan.deviation_curve.iter().copied().filter(|(i, d)| i.is_finite() && d.is_finite()).collect();
     if pts.is_empty() || rect.width() < 30.0 || rect.height() < 25.0 {
@@ -86,7 +86,7 @@ pub fn deviation_plot<F: Copy + PartialEq>(plan: &AngledPlan<F>, rect: Rect) -> 
         let at = map(i_min, d_min);
         items.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 2.4, stroke: Stroke::solid(0.25) });
         block_spot(&mut placer, at, 1.3);
-        let s = format!("minimum deviation {}° at i = {}°", fmt1(d_min), fmt1(i_min));
+        let s = w.fill("plot_minimum", &[("deviation", &fmt1(d_min)), ("incidence", &fmt1(i_min))]);
         label(&mut items, &mut placer, &room, &s, SMALL_PT, at, Vec2::new(0.0, 1.0));
     }
     // Every ray's dot first, so no letter is placed over a later ray's dot.
@@ -108,21 +108,21 @@ pub fn deviation_plot<F: Copy + PartialEq>(plan: &AngledPlan<F>, rect: Rect) -> 
     }
     items.push(text(
         Point::new(inner.min.x, rect.max.y - 4.0),
-        "Deviation against angle of incidence",
+        w.say("plot_deviation_title"),
         VALUE_PT,
         Weight::Bold,
         Anchor::Start,
     ));
     items.push(text(
         Point::new((inner.min.x + inner.max.x) / 2.0, rect.min.y + 1.2),
-        "angle of incidence i, degrees",
+        w.say("plot_incidence_axis"),
         SMALL_PT,
         Weight::Regular,
         Anchor::Middle,
     ));
     items.push(Item::Text {
         at: Point::new(rect.min.x + 2.4, (inner.min.y + inner.max.y) / 2.0),
-        text: "deviation δ, degrees".into(),
+        text: w.say("plot_deviation_axis").into(),
         size_pt: SMALL_PT,
         weight: Weight::Regular,
         anchor: Anchor::Middle,
@@ -181,7 +181,7 @@ mod tests {
         let p = Prism::new(60.0, 50.0, 1.491).unwrap();
         let plan = prism_plan(&[35.0, 45.0, 55.0, 65.0]);
         let rect = Rect::from_corners(Point::new(10.0, 10.0), Point::new(120.0, 80.0));
-        let items = deviation_plot(&plan, rect);
+        let items = deviation_plot(&plan, rect, &Words::shipped());
         let t = texts(&items);
         for (s, b, size) in &t {
             assert!(*size >= 6.5);
@@ -205,9 +205,9 @@ mod tests {
         let want = format!("minimum deviation {}° at i = {}°", fmt1(d_found), fmt1(i_found));
         assert!(names.contains(&want.as_str()), "{names:?}");
         // Right-angle prisms have no curve; a block's flat curve has no minimum inside it.
-        assert!(deviation_plot(&right_plan(PrismEntry::Side, &[0.0]), rect).is_empty());
+        assert!(deviation_plot(&right_plan(PrismEntry::Side, &[0.0]), rect, &Words::shipped()).is_empty());
         assert_eq!(curve_minimum(&block_plan().deviation_curve), None);
-        let flat = deviation_plot(&block_plan(), rect);
+        let flat = deviation_plot(&block_plan(), rect, &Words::shipped());
         assert!(!texts(&flat).iter().any(|x| x.0.starts_with("minimum")));
     }
 

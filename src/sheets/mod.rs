@@ -22,7 +22,7 @@ mod spec;
 pub use class::{ClassPlan, plan_class};
 pub use spec::{Choice, Enter, Lesson, SheetSpec};
 
-use crate::draw::Drawing;
+use crate::draw::{Drawing, Words};
 use crate::kit::{Kit, KitError, SheetEntry};
 use crate::paper::PaperSpec;
 use crate::scene::{Item, Rect};
@@ -174,31 +174,32 @@ impl Detail {
 /// in the answer file.
 pub type SummaryRow = Vec<(&'static str, String)>;
 
-/// What layout and output ask of a planned sheet.
+/// What layout and output ask of a planned sheet. Everything printed takes
+/// the words to print with ([`Words`], from `templates/words.toml`).
 pub trait SheetView {
     /// What must be on paper, in the sheet frame.
     fn extent(&self) -> Setup;
     /// The student drawing in the sheet frame; `bounds` is where labels may go.
-    fn student(&self, bounds: Rect) -> Drawing;
+    fn student(&self, bounds: Rect, w: &Words) -> Drawing;
     /// What the key adds on top of the student drawing.
-    fn key(&self, base: &mut Drawing, bounds: Rect) -> Vec<Item>;
+    fn key(&self, base: &mut Drawing, bounds: Rect, w: &Words) -> Vec<Item>;
     /// The template file with the sheet's heading, instructions and table columns.
     fn template(&self) -> &'static str;
     /// Words filling `{entry}` in the template and the subtitle: "the front face".
-    fn entry_words(&self) -> String;
+    fn entry_words(&self, w: &Words) -> String;
     /// The measurement table's rows, in letter order: every column filled on
     /// the key, only the given values (letter, setting) on the student sheet.
-    fn table_rows(&self, key: bool) -> Vec<Vec<String>>;
+    fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>>;
     /// The four columns' shares of the table's width.
     fn table_widths(&self) -> [f64; 4] {
         [0.09, 0.17, 0.47, 0.27]
     }
     /// The key's text: exact values, accept ranges and the safe band's reasons.
-    fn key_lines(&self) -> Vec<String>;
+    fn key_lines(&self, w: &Words) -> Vec<String>;
     /// The key's plot in `rect` (page mm); empty when the kind has none.
-    fn key_plot(&self, rect: Rect) -> Vec<Item>;
+    fn key_plot(&self, rect: Rect, w: &Words) -> Vec<Item>;
     /// A line for the student to fill in under the table, if any.
-    fn student_note(&self) -> Option<String>;
+    fn student_note(&self, w: &Words) -> Option<String>;
     /// The kind's part of the answer file, as a JSON object.
     fn answers(&self) -> serde_json::Value;
     /// The class summary's rows, one per guide ray in letter order.
@@ -206,7 +207,7 @@ pub trait SheetView {
     /// The class summary page's cells for each ray in letter order: letter,
     /// guide value, predicted answer with its accept range, and two cells of
     /// sheet-wide values (printed on the first row only).
-    fn summary_cells(&self) -> Vec<[String; 5]>;
+    fn summary_cells(&self, w: &Words) -> Vec<[String; 5]>;
     /// The `check`/`solve` text for the sheet (after its heading line).
     fn report(&self) -> String;
 }

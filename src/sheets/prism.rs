@@ -12,7 +12,7 @@ use super::block::angle_warnings;
 use super::{
     Choice, Detail, Enter, Kind, Prepared, Setup, SheetKind, SheetPlan, SheetSpec, SheetView, SummaryRow,
 };
-use crate::draw::Drawing;
+use crate::draw::{Drawing, Words};
 use crate::geom::{Placement, Point, Vec2};
 use crate::kit::{Kit, KitError, SheetEntry};
 use crate::optics::{Piece, Prism, PrismFace};
@@ -117,6 +117,14 @@ pub enum NoValue {
 }
 
 impl NoValue {
+    /// Printed words, in `w`.
+    pub fn printed(self, w: &Words) -> &str {
+        match self {
+            NoValue::NoSymmetricPassage => w.say("prism_no_symmetric"),
+            NoValue::ApexBeyondTwiceCritical => w.say("prism_apex_too_wide"),
+        }
+    }
+
     /// Plain words.
     pub fn words(self) -> &'static str {
         match self {
@@ -366,26 +374,26 @@ impl SheetView for PrismPlan {
     fn extent(&self) -> Setup {
         self.setup
     }
-    fn student(&self, bounds: Rect) -> Drawing {
-        av::student_drawing(&self.plan, bounds)
+    fn student(&self, bounds: Rect, w: &Words) -> Drawing {
+        av::student_drawing(&self.plan, bounds, w)
     }
-    fn key(&self, base: &mut Drawing, bounds: Rect) -> Vec<Item> {
-        super::angled_drawing::key(&self.plan, &bounds, &mut base.placer)
+    fn key(&self, base: &mut Drawing, bounds: Rect, w: &Words) -> Vec<Item> {
+        super::angled_drawing::key(&self.plan, &bounds, &mut base.placer, w)
     }
     fn template(&self) -> &'static str {
         if self.turns() { "prism-turn.toml" } else { "prism.toml" }
     }
-    fn entry_words(&self) -> String {
+    fn entry_words(&self, w: &Words) -> String {
         match self.entry {
-            PrismEntry::Side => "side",
-            PrismEntry::Base => "base",
+            PrismEntry::Side => w.say("entry_side"),
+            PrismEntry::Base => w.say("entry_base"),
         }
         .to_string()
     }
     fn table_widths(&self) -> [f64; 4] {
         [0.09, 0.21, 0.35, 0.35]
     }
-    fn table_rows(&self, key: bool) -> Vec<Vec<String>> {
+    fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>> {
         self.plan
             .rays
             .iter()
@@ -394,75 +402,83 @@ impl SheetView for PrismPlan {
                 if key {
                     if self.turns() {
                         let face = match &r.exit {
-                            Ok((f, _)) => av::FaceName::words(*f).to_string(),
-                            Err(e) => e.words().to_string(),
+                            Ok((f, _)) => av::FaceName::words(*f, w).to_string(),
+                            Err(e) => av::undefined_words(*e, w).to_string(),
                         };
                         row.push(face);
                     } else {
-                        row.push(with_range(&r.emergence_deg, r.tolerance_deg, "°"));
+                        row.push(with_range(&r.emergence_deg, r.tolerance_deg, "°", w));
                     }
-                    row.push(with_range(&r.deviation_deg, r.tolerance_deg, "°"));
+                    row.push(with_range(&r.deviation_deg, r.tolerance_deg, "°", w));
                 }
                 row
             })
             .collect()
     }
-    fn key_lines(&self) -> Vec<String> {
+    fn key_lines(&self, w: &Words) -> Vec<String> {
         let p = &self.prism;
         let a = p.apex_rad.to_degrees();
         let crit = (1.0 / p.index).asin().to_degrees();
         let mut v = Vec::new();
         if self.turns() {
-            v.push(format!(
-                "Total internal reflection at 45° needs n > √2 = 1.414; this piece has n = {} (critical angle {:.1}°). In at a side the ray turns through 90°; in at the base it is reflected twice and turns through 180°.",
-                p.index, crit
-            ));
+            v.push(
+                w.fill("prism_turn", &[("index", &p.index.to_string()), ("critical", &format!("{crit:.1}"))]),
+            );
             if self.entry == PrismEntry::Base {
-                v.push(
-                    "The ray comes back toward the ray box: with a laser source, nobody looks along it."
-                        .to_string(),
-                );
+                v.push(w.say("prism_comes_back").to_string());
             }
         } else {
-            v.push(format!(
-                "Deviation δ = i + e − A with apex A = {a:.1}°, n = {}, critical angle {crit:.1}°.",
-                p.index
+            v.push(w.fill(
+                "prism_deviation",
+                &[
+                    ("apex", &format!("{a:.1}")),
+                    ("index", &p.index.to_string()),
+                    ("critical", &format!("{crit:.1}")),
+                ],
             ));
             match self.minimum_deviation {
-                Ok((d, i)) => v.push(format!(
-                    "Minimum deviation δmin = {d:.1}° at i = {i:.1}° (the ray crosses symmetrically); n = sin((A + δmin)/2)/sin(A/2) = {:.3}.",
-                    ((p.apex_rad + d.to_radians()) / 2.0).sin() / (p.apex_rad / 2.0).sin()
+                Ok((d, i)) => v.push(w.fill(
+                    "prism_minimum",
+                    &[
+                        ("deviation", &format!("{d:.1}")),
+                        ("incidence", &format!("{i:.1}")),
+                        (
+                            "index",
+                            &format!(
+                                "{:.3}",
+                                ((p.apex_rad + d.to_radians()) / 2.0).sin() / (p.apex_rad / 2.0).sin()
+                            ),
+                        ),
+                    ],
                 )),
-                Err(e) => v.push(format!("No minimum deviation: {}.", e.words())),
+                Err(e) => v.push(w.fill("prism_no_minimum", &[("why", e.printed(w))])),
             }
             match self.limiting_incidence {
-                Ok(l) => v.push(format!(
-                    "Below i = {l:.1}° (the limiting incidence, asin(n·sin(A − θc))) the ray is totally reflected at the second side."
-                )),
-                Err(e) => v.push(format!("No limiting incidence: {}.", e.words())),
+                Ok(l) => v.push(w.fill("prism_limiting", &[("incidence", &format!("{l:.1}"))])),
+                Err(e) => v.push(w.fill("prism_no_limiting", &[("why", e.printed(w))])),
             }
         }
-        if let (Some(band), Some((lo, hi))) = (&self.plan.band, &self.plan.band_words) {
-            v.push(format!("Safe band i = {:.1}°–{:.1}°: {lo}; {hi}.", band.min, band.max));
+        if let (Some(band), Some((lo, hi))) = (&self.plan.band, self.plan.band_words_in(w)) {
+            v.push(av::band_line(band, &lo, &hi, w));
         }
-        v.push(format!(
-            "Accept ranges: angles ± the value shown (a ±0.5° protractor reading plus a ±{:.1} mm slip at each end of the line drawn). {}",
-            self.plan.rules.across_error_mm(),
-            match self.entry {
-                PrismEntry::Side => "Positive angles lie on the base side of the normal.",
-                PrismEntry::Base => "Positive angles lean toward the end of the base nearer the ray's way in.",
-            }
+        let sign = match self.entry {
+            PrismEntry::Side => w.say("prism_sign_side"),
+            PrismEntry::Base => w.say("prism_sign_base"),
+        };
+        v.push(w.fill(
+            "prism_accept",
+            &[("slip", &format!("{:.1}", self.plan.rules.across_error_mm())), ("sign", sign)],
         ));
         v
     }
-    fn key_plot(&self, rect: Rect) -> Vec<Item> {
-        super::angled_drawing::deviation_plot(&self.plan, rect)
+    fn key_plot(&self, rect: Rect, w: &Words) -> Vec<Item> {
+        super::angled_drawing::deviation_plot(&self.plan, rect, w)
     }
-    fn student_note(&self) -> Option<String> {
+    fn student_note(&self, w: &Words) -> Option<String> {
         if self.turns() {
-            Some("Angle the ray was turned through: ______°".to_string())
+            Some(w.say("note_turned").to_string())
         } else {
-            Some("Smallest deviation you found: ______° at i = ______°".to_string())
+            Some(w.say("note_smallest_deviation").to_string())
         }
     }
     fn answers(&self) -> Value {
@@ -500,13 +516,16 @@ impl SheetView for PrismPlan {
     fn summary_rows(&self) -> Vec<SummaryRow> {
         av::summary_rows(&self.plan, false)
     }
-    fn summary_cells(&self) -> Vec<[String; 5]> {
+    fn summary_cells(&self, w: &Words) -> Vec<[String; 5]> {
         let facts = match (self.turns(), self.minimum_deviation) {
-            (true, _) => {
-                (format!("apex {:.0}°", self.prism.apex_rad.to_degrees()), format!("n {}", self.prism.index))
+            (true, _) => (
+                w.fill("summary_apex", &[("apex", &format!("{:.0}", self.prism.apex_rad.to_degrees()))]),
+                format!("n {}", self.prism.index),
+            ),
+            (false, Ok((d, i))) => {
+                (format!("δmin {d:.1}°"), w.fill("summary_at", &[("incidence", &format!("{i:.1}"))]))
             }
-            (false, Ok((d, i))) => (format!("δmin {d:.1}°"), format!("at {i:.1}°")),
-            (false, Err(_)) => ("no δmin".to_string(), String::new()),
+            (false, Err(_)) => (w.say("summary_no_minimum").to_string(), String::new()),
         };
         self.plan
             .rays
@@ -515,7 +534,7 @@ impl SheetView for PrismPlan {
                 [
                     r.letter.clone(),
                     angle(r.incidence_deg),
-                    format!("δ {}", with_range(&r.deviation_deg, r.tolerance_deg, "°")),
+                    format!("δ {}", with_range(&r.deviation_deg, r.tolerance_deg, "°", w)),
                     facts.0.clone(),
                     facts.1.clone(),
                 ]

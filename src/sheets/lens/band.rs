@@ -1,6 +1,7 @@
 //! The safe band of guide heights: where a single guide ray gives a
 //! measurement worth making, and why the band ends where it ends.
 
+use crate::draw::Words;
 use crate::optics::{Boundary, Outcome, Outline, trace_parallel};
 use crate::plan::scan::{Scan, find_band};
 
@@ -83,7 +84,8 @@ pub struct SafeBand {
     pub min_limit: Limit,
     /// What stops it going higher.
     pub max_limit: Limit,
-    /// Plain words for the lower end.
+    /// Plain words for the lower end (the shipped words; a sheet prints
+    /// [`reasons`] in its own).
     pub min_reason: String,
     /// Plain words for the upper end.
     pub max_reason: String,
@@ -154,37 +156,46 @@ pub fn check_height(outline: &Outline, rules: &BandRules, h: f64) -> Option<Limi
     None
 }
 
-fn reason(limit: Limit, h: f64, lower: bool, outline: &Outline, rules: &BandRules) -> String {
-    let side = if lower { "below" } else { "above" };
-    let h = format!("{h:.1} mm");
+/// Plain words, in `w`, for what ends the band at height `h`: `lower` for the low end.
+fn reason(limit: Limit, h: f64, lower: bool, outline: &Outline, rules: &BandRules, w: &Words) -> String {
+    let side = if lower { w.say("band_below") } else { w.say("band_above") };
+    let at = format!("{h:.1} mm");
+    let s = [("side", side), ("at", at.as_str())];
+    let with = |key: &str, more: &[(&str, &str)]| w.fill(key, &[&s[..], more].concat());
     match limit {
-        Limit::NearAxis => {
-            format!("{side} {h} the ray lies within one ray width ({} mm) of the axis", rules.ray_width_mm)
+        Limit::NearAxis => with("band_near_axis", &[("width", &rules.ray_width_mm.to_string())]),
+        Limit::Shallow => {
+            let slots = [
+                ("slip", format!("{:.1}", rules.across_error_mm())),
+                ("percent", format!("{:.0}", rules.max_relative_uncertainty * 100.0)),
+            ];
+            let slots = slots.each_ref().map(|(k, v)| (*k, v.as_str()));
+            if rules.measure_from_entry {
+                with("band_shallow_entry", &slots)
+            } else {
+                with("band_shallow_exit", &slots)
+            }
         }
-        Limit::Shallow => format!(
-            "{side} {h} the ray crosses the axis so shallowly that a {:.1} mm slip across the ray moves the crossing by more than {:.0} % of its distance from the {} face",
-            rules.across_error_mm(),
-            rules.max_relative_uncertainty * 100.0,
-            if rules.measure_from_entry { "entry" } else { "exit" }
+        Limit::OffPage => with("band_off_page", &[]),
+        Limit::EdgeClearance => with("band_edge", &[("edge", &format!("{:.1}", outline.a()))]),
+        Limit::WrongPath => with("band_wrong_path", &[]),
+        Limit::CriticalMargin => with(
+            "band_critical_exit",
+            &[
+                ("margin", &rules.critical_margin_deg.to_string()),
+                ("critical", &format!("{:.1}", outline.piece.critical_angle_rad().to_degrees())),
+            ],
         ),
-        Limit::OffPage => format!("{side} {h} the crossing falls beyond the printed page"),
-        Limit::EdgeClearance => format!(
-            "{side} {h} the ray comes within one ray width of the piece's edge at {:.1} mm",
-            outline.a()
-        ),
-        Limit::WrongPath => {
-            format!("{side} {h} the ray is totally internally reflected or leaves through the wrong face")
-        }
-        Limit::CriticalMargin => format!(
-            "{side} {h} the ray meets the exit face within {}° of the critical angle ({:.1}°)",
-            rules.critical_margin_deg,
-            outline.piece.critical_angle_rad().to_degrees()
-        ),
-        Limit::Sensitive => format!(
-            "{side} {h} the crossing moves more than {} mm per mm of height (near-grazing exit)",
-            rules.max_sensitivity
-        ),
+        Limit::Sensitive => with("band_sensitive", &[("value", &rules.max_sensitivity.to_string())]),
     }
+}
+
+/// Plain words, in `w`, for both ends of a band (low end, high end).
+pub fn reasons(b: &SafeBand, outline: &Outline, rules: &BandRules, w: &Words) -> (String, String) {
+    (
+        reason(b.min_limit, b.min_mm, true, outline, rules, w),
+        reason(b.max_limit, b.max_mm, false, outline, rules, w),
+    )
 }
 
 /// Finds the safe band of guide heights with [`find_band`]: scans |h| from 0
@@ -210,8 +221,9 @@ pub fn safe_band(outline: &Outline, rules: &BandRules) -> Option<SafeBand> {
         max_mm: b.max,
         min_limit: b.min_limit,
         max_limit: b.max_limit,
-        min_reason: reason(b.min_limit, b.min, true, outline, rules),
-        max_reason: reason(b.max_limit, b.max, false, outline, rules),
+        // The shipped words, for the answer file, reports and warnings (which stay English).
+        min_reason: reason(b.min_limit, b.min, true, outline, rules, &Words::shipped()),
+        max_reason: reason(b.max_limit, b.max, false, outline, rules, &Words::shipped()),
     })
 }
 

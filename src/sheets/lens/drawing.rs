@@ -2,7 +2,7 @@
 //! vertex, y up, mm): what the student sheet shows, and what the key adds.
 
 use super::LensPlan as SheetPlan;
-use crate::draw::{Drawing, Placer, place_near, text, text_box};
+use crate::draw::{Drawing, Placer, Words, place_near, text, text_box};
 use crate::geom::{Point, Vec2};
 use crate::optics::{Boundary, Face, Outcome, Outline};
 use crate::plan::fmt_mm;
@@ -47,7 +47,7 @@ fn place_label(d: &mut Drawing, bounds: &Rect, s: &str, size: f64, candidates: &
 /// box position and guide lines with arrowheads.
 ///
 /// `bounds` is where labels may go, in the sheet frame: the visible window.
-pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
+pub fn student(plan: &SheetPlan, bounds: Rect, w: &Words) -> Drawing {
     let o = &plan.outline;
     let s = plan.setup;
     let a = o.a();
@@ -89,8 +89,8 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     // Flat-face line or centre line.
     let reach = (a + 10.0).min(s.y_max - 1.0);
     let (lx, name) = match (plan.kind, o.entry_face) {
-        (SheetKind::CurvedFace, Face::Flat) => (0.0, "flat face"),
-        _ => (centre_line_x(o), "centre line"),
+        (SheetKind::CurvedFace, Face::Flat) => (0.0, w.say("flat_face")),
+        _ => (centre_line_x(o), w.say("centre_line")),
     };
     let top = Point::new(lx, reach);
     d.items.push(line(Point::new(lx, -reach), top, Stroke::solid(THIN_W).dashed(LINE_DASH)));
@@ -111,7 +111,7 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     d.placer.block(rb);
     d.items.push(Item::Text {
         at: Point::new(bx0 + 5.6, 0.0),
-        text: "ray box here".into(),
+        text: w.say("ray_box_here").into(),
         size_pt: LABEL_PT,
         weight: Weight::Regular,
         anchor: Anchor::Middle,
@@ -164,10 +164,11 @@ pub fn student(plan: &SheetPlan, bounds: Rect) -> Drawing {
     cands.push((Point::new(s.x_max - 2.0, 1.4), Anchor::End));
     cands.push((Point::new(s.x_max - 2.0, -3.4), Anchor::End));
     // Only where it is free: the axis is named in the instructions too.
+    let axis_name = w.say("optical_axis");
     let boxes: Vec<Rect> =
-        cands.iter().map(|(p, a)| text_box(*p, "optical axis", LABEL_PT, Weight::Regular, *a)).collect();
+        cands.iter().map(|(p, a)| text_box(*p, axis_name, LABEL_PT, Weight::Regular, *a)).collect();
     if let Some(k) = d.placer.try_choose(&boxes, &bounds) {
-        d.items.push(text(cands[k].0, "optical axis", LABEL_PT, Weight::Regular, cands[k].1));
+        d.items.push(text(cands[k].0, axis_name, LABEL_PT, Weight::Regular, cands[k].1));
     }
     d
 }
@@ -234,7 +235,7 @@ pub fn signed(h: f64) -> String {
 /// What the key adds on top of the student drawing: traced rays, crossing
 /// marks with values, the paraxial focus, the rear principal plane and, for
 /// diverging pieces, the backward extensions, trace-back points and virtual focus.
-pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Item> {
+pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect, w: &Words) -> Vec<Item> {
     let mut items = Vec::new();
     let s = plan.setup;
     let o = &plan.outline;
@@ -308,7 +309,7 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
     // values, each value being in the key's table. Labels go below the axis
     // where there is room, with a leader to their mark when they stand off.
     marks.sort_by(|a, b| a.0.total_cmp(&b.0));
-    let (ref_x, ref_words) = plan.measure_from();
+    let (ref_x, ref_words) = plan.measure_from(w);
     for (x, _, _) in &marks {
         items.push(Item::Marker {
             at: Point::new(*x, 0.0),
@@ -333,8 +334,9 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
         let (lo, hi) =
             (dists.iter().copied().fold(f64::MAX, f64::min), dists.iter().copied().fold(f64::MIN, f64::max));
         let value = if c.len() == 1 { fmt1(lo) } else { format!("{}\u{2013}{}", fmt1(lo), fmt1(hi)) };
-        let words = if is_virtual { "before the exit face" } else { ref_words };
-        let full = format!("{}: {value} mm {words}", letters.join(", "));
+        let words = if is_virtual { w.say("before_exit_face") } else { ref_words };
+        let full =
+            w.fill("crossing_label", &[("rays", &letters.join(", ")), ("value", &value), ("where", words)]);
         let at = Point::new((c[0].0 + c[c.len() - 1].0) / 2.0, 0.0);
         // A virtual crossing's dashed extensions fan out to its right: its label goes left.
         let prefer = if is_virtual { Vec2::new(-1.0, -0.3) } else { Vec2::new(0.0, -1.0) };
@@ -354,14 +356,14 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
         let at = Point::new(f, 0.0);
         items.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 2.4, stroke: Stroke::solid(0.25) });
         let text_s = if f < o.t() {
-            format!("virtual focus (paraxial): {} mm before the exit face", fmt1(o.t() - f))
+            w.fill("virtual_focus_label", &[("value", &fmt1(o.t() - f))])
         } else {
-            format!("paraxial focus: {} mm {}", fmt1(f - ref_x), ref_words)
+            w.fill("paraxial_focus_label", &[("value", &fmt1(f - ref_x)), ("where", ref_words)])
         };
         let placed = stacked_label(&mut base.placer, &bounds, &text_s, at)
             .or_else(|| place_near(&mut base.placer, &bounds, &text_s, 6.5, at, Vec2::new(0.0, 1.0)))
             .or_else(|| {
-                place_near(&mut base.placer, &bounds, "paraxial focus", 6.5, at, Vec2::new(0.0, 1.0))
+                place_near(&mut base.placer, &bounds, w.say("paraxial_focus"), 6.5, at, Vec2::new(0.0, 1.0))
             });
         items.extend(placed.unwrap_or_default());
     }
@@ -376,11 +378,15 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect) -> Vec<Ite
                 stroke: Stroke::solid(THIN_W).gray(0.4).dashed(Dash::Dashed { on_mm: 1.0, off_mm: 1.0 }),
             });
             base.placer.block_soft_line(a, b);
-            let placed =
-                place_near(&mut base.placer, &bounds, "rear principal plane", 6.0, b, Vec2::new(0.3, 1.0))
-                    .or_else(|| {
-                        place_near(&mut base.placer, &bounds, "H\u{2032}", 6.0, b, Vec2::new(0.3, 1.0))
-                    });
+            let placed = place_near(
+                &mut base.placer,
+                &bounds,
+                w.say("rear_principal_plane"),
+                6.0,
+                b,
+                Vec2::new(0.3, 1.0),
+            )
+            .or_else(|| place_near(&mut base.placer, &bounds, "H\u{2032}", 6.0, b, Vec2::new(0.3, 1.0)));
             items.extend(placed.unwrap_or_default());
         }
     }

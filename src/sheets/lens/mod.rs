@@ -15,6 +15,7 @@ pub use drawing::{GUIDE_W, LABEL_PT, OUTLINE_W, RAY_W, THIN_W, signed};
 pub use kind::{CURVED_FACE, FOCAL};
 
 use super::{Detail, SheetKind, SheetPlan, SheetSpec};
+use crate::draw::Words;
 use crate::geom::Point;
 use crate::kit::Kit;
 use crate::optics::{AxialTrace as Trace, Entry, Lens, Outcome, Outline, Paraxial, trace_parallel};
@@ -94,12 +95,12 @@ impl LensPlan {
         top_down(&heights).into_iter().map(|i| &self.rays[i]).collect()
     }
 
-    /// Where students measure crossings from, as (x in the sheet frame, words):
+    /// Where students measure crossings from, as (x in the sheet frame, words in `w`):
     /// the flat face on curved-face sheets, the exit face on focal sheets.
-    pub fn measure_from(&self) -> (f64, &'static str) {
+    pub fn measure_from<'w>(&self, w: &'w Words) -> (f64, &'w str) {
         match (self.kind, self.outline.entry_face) {
-            (SheetKind::CurvedFace, crate::optics::Face::Flat) => (0.0, "from the flat face"),
-            _ => (self.outline.t(), "from the exit face"),
+            (SheetKind::CurvedFace, crate::optics::Face::Flat) => (0.0, w.say("from_flat_face")),
+            _ => (self.outline.t(), w.say("from_exit_face")),
         }
     }
 

@@ -3,16 +3,16 @@
 
 use super::LensPlan as SheetPlan;
 use crate::draw::axes::nice_step;
-use crate::draw::text;
+use crate::draw::{Words, text};
 use crate::geom::Point;
 use crate::scene::{Anchor, Dash, Item, MarkerShape, Rect, Stroke, Weight};
 
 /// Plot items inside `area` (page mm). Distances on the vertical axis are
 /// from the exit vertex (negative for virtual crossings, plotted as their size).
-pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
+pub fn aberration_plot(plan: &SheetPlan, area: Rect, w: &Words) -> Vec<Item> {
     let mut items = Vec::new();
     // The same reference as the sheet's table: the flat face or the exit face.
-    let (t, ref_words) = plan.measure_from();
+    let (t, ref_words) = plan.measure_from(w);
     let top_h = plan.crossing_curve.top_height_mm;
     let pts: Vec<(f64, f64)> = plan
         .crossing_curve
@@ -80,7 +80,13 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
         let at = map(x1, p);
         let below = p > (y0 + y1) / 2.0;
         let dy = if below { -2.8 } else { 1.0 };
-        items.push(text(Point::new(at.x - 1.0, at.y + dy), "paraxial", 6.5, Weight::Regular, Anchor::End));
+        items.push(text(
+            Point::new(at.x - 1.0, at.y + dy),
+            w.say("plot_paraxial"),
+            6.5,
+            Weight::Regular,
+            Anchor::End,
+        ));
     }
     items.push(Item::Polyline {
         points: pts.iter().map(|&(h, d)| map(h, d)).collect(),
@@ -102,21 +108,21 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect) -> Vec<Item> {
     }
     items.push(text(
         Point::new(inner.min.x, area.max.y - 3.5),
-        "Crossing vs guide height (spherical aberration)",
+        w.say("plot_aberration_title"),
         7.0,
         Weight::Bold,
         Anchor::Start,
     ));
     items.push(text(
         Point::new((inner.min.x + inner.max.x) / 2.0, area.min.y + 1.0),
-        "guide height, mm from the axis",
+        w.say("plot_height_axis"),
         6.5,
         Weight::Regular,
         Anchor::Middle,
     ));
     items.push(Item::Text {
         at: Point::new(area.min.x + 1.8, (inner.min.y + inner.max.y) / 2.0),
-        text: format!("mm {ref_words}"),
+        text: w.fill("plot_crossing_axis", &[("where", ref_words)]),
         size_pt: 6.5,
         weight: Weight::Regular,
         anchor: Anchor::Middle,

@@ -6,7 +6,7 @@ use std::fmt::Write;
 use serde::Serialize;
 
 use super::{LensPlan, RayAnswer, drawing, plot};
-use crate::draw::Drawing;
+use crate::draw::{Drawing, Words};
 use crate::optics::Outcome;
 use crate::plan::{fmt_mm, fmt1, fmt2_or_none};
 use crate::scene::{Item, Rect};
@@ -67,7 +67,24 @@ struct RayOut<'a> {
 }
 
 /// The student sheet's words for an on-axis ray, in the two measurement columns.
-pub const ON_AXIS_CELLS: [&str; 2] = ["on the axis: goes straight through", "nothing to measure"];
+pub fn on_axis_cells(w: &Words) -> [String; 2] {
+    [w.say("on_axis_goes_straight").to_string(), w.say("on_axis_nothing").to_string()]
+}
+
+/// Printed words for a lens ray's outcome.
+pub fn outcome_words(o: &Outcome, w: &Words) -> String {
+    match o {
+        Outcome::Crosses { .. } => w.say("outcome_crosses"),
+        Outcome::Virtual { .. } => w.say("outcome_virtual"),
+        Outcome::TotalInternalReflection => w.say("outcome_total_internal_reflection"),
+        Outcome::LeavesThroughEdge => w.say("outcome_leaves_through_edge"),
+        Outcome::Parallel => w.say("outcome_parallel"),
+        Outcome::OnAxis => w.say("outcome_on_axis"),
+        Outcome::Misses => w.say("outcome_misses"),
+        Outcome::Trapped => w.say("outcome_trapped"),
+    }
+    .to_string()
+}
 
 impl LensPlan {
     /// Where the table's two measurement columns measure from, as x in the
@@ -76,7 +93,7 @@ impl LensPlan {
     /// face and the centre line drawn on the sheet ([`drawing::centre_line_x`]).
     pub fn table_references(&self) -> [f64; 2] {
         match self.kind {
-            SheetKind::CurvedFace => [self.measure_from().0, self.outline.t()],
+            SheetKind::CurvedFace => [self.measure_from(&Words::default()).0, self.outline.t()],
             _ => [self.outline.t(), drawing::centre_line_x(&self.outline)],
         }
     }
@@ -95,21 +112,21 @@ impl LensPlan {
     /// The key's two measurement cells for one ray: each distance with its
     /// accept range (`90.5 ± 3.4 (87.1–93.9)`) when graded, the distance
     /// marked "not graded" otherwise, or what happened instead.
-    fn key_cells(&self, ray: &RayAnswer) -> [String; 2] {
+    fn key_cells(&self, ray: &RayAnswer, w: &Words) -> [String; 2] {
         if matches!(ray.trace.outcome, Outcome::OnAxis) {
-            return ON_AXIS_CELLS.map(String::from);
+            return on_axis_cells(w);
         }
         let cell = |x_ref: f64| match (self.table_distance(ray, x_ref), ray.graded, ray.tolerance_mm) {
             (Some(d), true, Some(t)) => {
                 format!("{} ± {} ({}\u{2013}{})", fmt1(d), fmt1(t), fmt1(d - t), fmt1(d + t))
             }
-            (Some(d), _, _) => format!("{} (not graded)", fmt1(d)),
+            (Some(d), _, _) => w.fill("not_graded", &[("value", &fmt1(d))]),
             (None, _, _) => String::new(),
         };
         let [a, b] = self.table_references();
         match self.table_distance(ray, a) {
             Some(_) => [cell(a), cell(b)],
-            None => ["no crossing".to_string(), ray.trace.outcome.as_str().replace('-', " ")],
+            None => [w.say("no_crossing").to_string(), outcome_words(&ray.trace.outcome, w)],
         }
     }
 }
@@ -119,12 +136,12 @@ impl SheetView for LensPlan {
         self.setup
     }
 
-    fn student(&self, bounds: Rect) -> Drawing {
-        drawing::student(self, bounds)
+    fn student(&self, bounds: Rect, w: &Words) -> Drawing {
+        drawing::student(self, bounds, w)
     }
 
-    fn key(&self, base: &mut Drawing, bounds: Rect) -> Vec<Item> {
-        drawing::key_extras(self, base, bounds)
+    fn key(&self, base: &mut Drawing, bounds: Rect, w: &Words) -> Vec<Item> {
+        drawing::key_extras(self, base, bounds, w)
     }
 
     fn template(&self) -> &'static str {
@@ -135,86 +152,81 @@ impl SheetView for LensPlan {
         }
     }
 
-    fn entry_words(&self) -> String {
-        self.entry.as_str().to_string()
+    fn entry_words(&self, w: &Words) -> String {
+        match self.entry {
+            crate::optics::Entry::Front => w.say("entry_front"),
+            crate::optics::Entry::Back => w.say("entry_back"),
+        }
+        .to_string()
     }
 
     fn table_widths(&self) -> [f64; 4] {
         [0.08, 0.14, 0.39, 0.39]
     }
 
-    fn table_rows(&self, key: bool) -> Vec<Vec<String>> {
+    fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>> {
         self.rays_top_down()
             .into_iter()
             .map(|r| {
                 let mut row = vec![r.letter.clone(), drawing::signed(r.height_mm)];
                 if key {
-                    row.extend(self.key_cells(r));
+                    row.extend(self.key_cells(r, w));
                 } else if matches!(r.trace.outcome, Outcome::OnAxis) {
-                    row.extend(ON_AXIS_CELLS.map(String::from));
+                    row.extend(on_axis_cells(w));
                 }
                 row
             })
             .collect()
     }
 
-    fn key_lines(&self) -> Vec<String> {
+    fn key_lines(&self, w: &Words) -> Vec<String> {
         let px = &self.paraxial;
         let mut v = Vec::new();
-        let mm = |x: Option<f64>| x.map(|x| format!("{} mm", fmt1(x))).unwrap_or_else(|| "none".into());
+        let mm =
+            |x: Option<f64>| x.map(|x| format!("{} mm", fmt1(x))).unwrap_or_else(|| w.say("none").into());
         let front = match px.front_focal_mm() {
-            Some(d) if d < 0.0 => {
-                format!("the front focal point lies {} after the entry face (virtual)", mm(Some(-d)))
-            }
-            d => format!("front focal distance {} before the entry face", mm(d)),
+            Some(d) if d < 0.0 => w.fill("lens_front_virtual", &[("value", &mm(Some(-d)))]),
+            d => w.fill("lens_front", &[("value", &mm(d))]),
         };
-        v.push(format!(
-            "Lens maker's formula (thin lens): f = {}. Thick piece: focal length (EFL) {}, back focal length (BFL) {} from the exit face; {front}.",
-            mm(px.thin_lens_focal_mm()),
-            mm(px.efl_mm()),
-            mm(px.bfl_mm()),
+        v.push(w.fill(
+            "lens_formulas",
+            &[
+                ("thin", &mm(px.thin_lens_focal_mm())),
+                ("efl", &mm(px.efl_mm())),
+                ("bfl", &mm(px.bfl_mm())),
+                ("front", &front),
+            ],
         ));
         match px.efl_mm() {
-            Some(f) if f < 0.0 => v.push(format!(
-                "Diverging: the rays seem to come from a virtual focus {} before the exit face. A ruler from the exit face to where the dashed lines meet measures |BFL|; the focal length {} is counted from the rear principal plane.",
-                mm(px.bfl_mm().map(f64::abs)),
-                mm(Some(f))
-            )),
-            Some(f) => v.push(format!(
-                "A ruler from the exit face to where near-axis rays cross measures the BFL ({}); the focal length {} is counted from the rear principal plane ({} from the exit face).",
-                mm(px.bfl_mm()),
-                mm(Some(f)),
-                mm(px.rear_principal_mm())
+            Some(f) if f < 0.0 => v.push(
+                w.fill("lens_diverging", &[("bfl", &mm(px.bfl_mm().map(f64::abs))), ("efl", &mm(Some(f)))]),
+            ),
+            Some(f) => v.push(w.fill(
+                "lens_converging",
+                &[("bfl", &mm(px.bfl_mm())), ("efl", &mm(Some(f))), ("plane", &mm(px.rear_principal_mm()))],
             )),
             None => {}
         }
         if let Some(b) = &self.band {
-            v.push(format!(
-                "Safe band {}–{} mm from the axis: {}; {}.",
-                fmt1(b.min_mm),
-                fmt1(b.max_mm),
-                b.min_reason,
-                b.max_reason
+            let (lower, upper) = super::band::reasons(b, &self.outline, &self.rules, w);
+            v.push(w.fill(
+                "lens_band",
+                &[("min", &fmt1(b.min_mm)), ("max", &fmt1(b.max_mm)), ("lower", &lower), ("upper", &upper)],
             ));
         }
-        v.push(format!(
-            "Tolerances: ±{} mm across the ray divided by tan(angle to the axis); crossings are exact Snell's-law traces.",
-            fmt_mm(self.rules.across_error_mm())
-        ));
+        v.push(w.fill("lens_tolerances", &[("value", &fmt_mm(self.rules.across_error_mm()))]));
         v
     }
 
-    fn key_plot(&self, rect: Rect) -> Vec<Item> {
-        plot::aberration_plot(self, rect)
+    fn key_plot(&self, rect: Rect, w: &Words) -> Vec<Item> {
+        plot::aberration_plot(self, rect, w)
     }
 
-    fn student_note(&self) -> Option<String> {
+    fn student_note(&self, w: &Words) -> Option<String> {
         match self.kind {
             SheetKind::CurvedFace => None,
-            _ if self.is_diverging() => {
-                Some("Virtual focus you found: ______ mm before the exit face".to_string())
-            }
-            _ => Some("Where the rays meet: ______ mm from the exit face".to_string()),
+            _ if self.is_diverging() => Some(w.say("note_virtual_focus").to_string()),
+            _ => Some(w.say("note_rays_meet").to_string()),
         }
     }
 
@@ -277,9 +289,10 @@ impl SheetView for LensPlan {
             .collect()
     }
 
-    fn summary_cells(&self) -> Vec<[String; 5]> {
-        let (ref_x, ref_words) = self.measure_from();
-        let opt = |v: Option<f64>| v.map(|v| format!("{:.1}", v + 0.0)).unwrap_or_else(|| "none".into());
+    fn summary_cells(&self, w: &Words) -> Vec<[String; 5]> {
+        let (ref_x, ref_words) = self.measure_from(w);
+        let opt =
+            |v: Option<f64>| v.map(|v| format!("{:.1}", v + 0.0)).unwrap_or_else(|| w.say("none").into());
         let px = &self.paraxial;
         self.rays_top_down()
             .into_iter()
@@ -290,13 +303,17 @@ impl SheetView for LensPlan {
                 };
                 let crossing = match r.crossing_from_entry_mm {
                     Some(x) if x < self.outline.t() && ref_x > 0.0 => {
-                        format!("{:.1}{tol} before the exit face", self.outline.t() - x)
+                        let value = format!("{:.1}{tol}", self.outline.t() - x);
+                        w.fill("summary_crossing", &[("value", &value), ("where", w.say("before_exit_face"))])
                     }
-                    Some(x) => format!("{:.1}{tol} {ref_words}", x - ref_x),
-                    None => r.trace.outcome.as_str().to_string(),
+                    Some(x) => w.fill(
+                        "summary_crossing",
+                        &[("value", &format!("{:.1}{tol}", x - ref_x)), ("where", ref_words)],
+                    ),
+                    None => outcome_words(&r.trace.outcome, w),
                 };
                 let crossing = if r.crossing_from_entry_mm.is_some() && !r.graded {
-                    format!("{crossing} (not graded)")
+                    w.fill("not_graded", &[("value", &crossing)])
                 } else {
                     crossing
                 };
@@ -304,8 +321,11 @@ impl SheetView for LensPlan {
                     r.letter.clone(),
                     drawing::signed(r.height_mm),
                     crossing,
-                    format!("f {} / EFL {}", opt(px.thin_lens_focal_mm()), opt(px.efl_mm())),
-                    format!("BFL {}", opt(px.bfl_mm())),
+                    w.fill(
+                        "summary_focal",
+                        &[("thin", &opt(px.thin_lens_focal_mm())), ("efl", &opt(px.efl_mm()))],
+                    ),
+                    w.fill("summary_bfl", &[("bfl", &opt(px.bfl_mm()))]),
                 ]
             })
             .collect()
