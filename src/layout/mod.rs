@@ -132,7 +132,8 @@ pub fn tiling_on(p: &SheetPlan, paper: &PaperSpec) -> Tiling {
     if fits_one_page(p, paper) {
         return Tiling { columns: 1, rows: 1 };
     }
-    tiling_for(s.length(), s.height(), &tiles::tile_regions(paper).common.drawing)
+    let area = tiles::tiled_area(&s);
+    tiling_for(area.length(), area.height(), &tiles::tile_regions(paper).common.drawing)
 }
 
 /// The paper one plan is laid out on. With `orientation = "auto"` a sheet is
@@ -240,7 +241,6 @@ pub fn pages_for(
     let foot = caution(&rg.caution, t).map_err(at)?;
     let s = p.setup();
     let length = s.length();
-    let height = s.height();
     let cy = (s.y_min + s.y_max) / 2.0;
     let stem = page_stem(p, role);
     let view = p.view();
@@ -268,11 +268,20 @@ pub fn pages_for(
         page_items.extend(foot);
         return Ok(vec![Page { width_mm: rg.page.0, height_mm: rg.page.1, name: stem, items: page_items }]);
     }
-    // Tiled: labels stay on the setup; the tiles' edges avoid cutting them.
+    // Tiled: the tiles' edges avoid cutting labels.
     let tr = tiles::tile_regions(paper);
     let win = tr.common.drawing;
-    let tiling = tiling_for(length, height, &win);
-    let bounds = Rect { min: Point::new(s.x_min, s.y_min), max: Point::new(s.x_max, s.y_max) };
+    // The drawing pages cover the setup and room round it for labels.
+    let s = tiles::tiled_area(&s);
+    let tiling = tiling_for(s.length(), s.height(), &win);
+    // Labels stay in that area; across the axis, a single row of drawing
+    // pages leaves the window's whole height (the window is centred).
+    let (y_lo, y_hi) = if tiling.rows == 1 {
+        (cy - win.height() / 2.0 + 1.0, cy + win.height() / 2.0 - 1.0)
+    } else {
+        (s.y_min, s.y_max)
+    };
+    let bounds = Rect { min: Point::new(s.x_min, y_lo), max: Point::new(s.x_max, y_hi) };
     let mut d: Drawing = view.student(bounds, w);
     let mut items = std::mem::take(&mut d.items);
     let key_items = view.key(&mut d, bounds, w);

@@ -23,6 +23,20 @@ pub const FOOTER_MM: f64 = 20.0;
 /// The strip at the right of a drawing page that holds the 50 mm bar.
 pub const STRIP_MM: f64 = 11.0;
 
+/// Room kept round a tiled setup for its labels, mm: on a one-page sheet
+/// labels may use the whole window, on drawing pages only the tiled area.
+pub const LABEL_MARGIN_MM: f64 = 10.0;
+
+/// The area the drawing pages cover: the setup and [`LABEL_MARGIN_MM`] round it.
+pub fn tiled_area(s: &Setup) -> Setup {
+    Setup {
+        x_min: s.x_min - LABEL_MARGIN_MM,
+        x_max: s.x_max + LABEL_MARGIN_MM,
+        y_min: s.y_min - LABEL_MARGIN_MM,
+        y_max: s.y_max + LABEL_MARGIN_MM,
+    }
+}
+
 /// The regions of a drawing page, page mm.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct TileRegions {

@@ -326,7 +326,10 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect, w: &Words)
             _ => clusters.push(vec![m]),
         }
     }
-    for c in &clusters {
+    // Every cluster's full label (letters, value, reference), tried on a copy
+    // of the placer: all placed, they stand; else the crossings are shown
+    // magnified in an inset where each mark has room for its own label.
+    let label_of = |c: &[&(f64, Vec<String>, bool)]| {
         let mut letters: Vec<String> = c.iter().flat_map(|m| m.1.iter().cloned()).collect();
         letters.sort();
         let is_virtual = c[0].2;
@@ -337,22 +340,53 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect, w: &Words)
         let words = if is_virtual { w.say("before_exit_face") } else { ref_words };
         let full =
             w.fill("crossing_label", &[("rays", &letters.join(", ")), ("value", &value), ("where", words)]);
+        (full, letters, is_virtual)
+    };
+    let mut trial = base.placer.clone();
+    let mut trial_items = Vec::new();
+    let mut all_full = true;
+    for c in &clusters {
+        let (full, _, is_virtual) = label_of(c);
         let at = Point::new((c[0].0 + c[c.len() - 1].0) / 2.0, 0.0);
         // A virtual crossing's dashed extensions fan out to its right: its label goes left.
         let prefer = if is_virtual { Vec2::new(-1.0, -0.3) } else { Vec2::new(0.0, -1.0) };
-        let placed = stacked_label(&mut base.placer, &bounds, &full, at)
-            .or_else(|| place_near(&mut base.placer, &bounds, &full, 6.5, at, prefer))
-            .or_else(|| {
-                // The letters alone (the values are in the key's table), in the
-                // first free direction round the mark.
-                [prefer, Vec2::new(0.0, -1.0), Vec2::new(0.0, 1.0), Vec2::new(-1.0, 0.0), Vec2::new(1.0, 0.0)]
-                    .into_iter()
-                    .find_map(|d| place_near(&mut base.placer, &bounds, &letters.join(","), 6.5, at, d))
-            });
-        items.extend(placed.unwrap_or_default());
+        match stacked_label(&mut trial, &bounds, &full, at)
+            .or_else(|| place_near(&mut trial, &bounds, &full, 6.5, at, prefer))
+        {
+            Some(placed) => trial_items.extend(placed),
+            None => {
+                all_full = false;
+                break;
+            }
+        }
+    }
+    let focus_x = plan.paraxial.rear_focus_x();
+    if all_full {
+        base.placer = trial;
+        items.extend(trial_items);
+    } else if let Some(inset) = crossing_inset(plan, base, &bounds, &marks, focus_x, &label_of, w) {
+        items.extend(inset);
+    } else {
+        // No room for an inset either: the letters alone (the values are in
+        // the key's table), in the first free direction round the mark.
+        for c in &clusters {
+            let (_, letters, is_virtual) = label_of(c);
+            let at = Point::new((c[0].0 + c[c.len() - 1].0) / 2.0, 0.0);
+            let prefer = if is_virtual { Vec2::new(-1.0, -0.3) } else { Vec2::new(0.0, -1.0) };
+            let placed = [
+                prefer,
+                Vec2::new(0.0, -1.0),
+                Vec2::new(0.0, 1.0),
+                Vec2::new(-1.0, 0.0),
+                Vec2::new(1.0, 0.0),
+            ]
+            .into_iter()
+            .find_map(|d| place_near(&mut base.placer, &bounds, &letters.join(","), 6.5, at, d));
+            items.extend(placed.unwrap_or_default());
+        }
     }
     // Paraxial focus: its value is in the key's text; the label goes where it is free.
-    if let Some(f) = plan.paraxial.rear_focus_x() {
+    if let Some(f) = focus_x {
         let at = Point::new(f, 0.0);
         items.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 2.4, stroke: Stroke::solid(0.25) });
         let text_s = if f < o.t() {
@@ -393,13 +427,216 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect, w: &Words)
     items
 }
 
+/// A crossing mark: its x, the letters of its rays, whether it is virtual.
+type Mark = (f64, Vec<String>, bool);
+/// A group of marks' full label, its letters and whether it is virtual.
+type LabelOf<'a> = dyn Fn(&[&Mark]) -> (String, Vec<String>, bool) + 'a;
+
+/// Heights tried for the magnified inset of crossings, mm, tallest first, and
+/// the smallest spacing its marks get (room for a label between neighbours).
+const INSET_H_MM: [f64; 3] = [34.0, 28.0, 24.0];
+const INSET_GAP_MM: f64 = 9.0;
+
+/// The crossings magnified in a framed inset placed where the drawing is free:
+/// the axis, the rays' last segments and dashed extensions, every mark and the
+/// paraxial focus, spread by a whole-number factor so each mark (or group of
+/// marks that coincide) has its own full label with a leader. A thin box in the
+/// drawing shows the region magnified, and the inset's title states the factor
+/// and that it is not to scale. `None` when no factor or free place works.
+fn crossing_inset(
+    plan: &SheetPlan,
+    base: &mut Drawing,
+    bounds: &Rect,
+    marks: &[(f64, Vec<String>, bool)],
+    focus_x: Option<f64>,
+    label_of: &LabelOf<'_>,
+    w: &Words,
+) -> Option<Vec<Item>> {
+    INSET_H_MM.iter().find_map(|&ih| {
+        let mut trial = Drawing { items: Vec::new(), placer: base.placer.clone() };
+        let out = inset_of_height(plan, &mut trial, bounds, marks, focus_x, label_of, w, ih)?;
+        base.placer = trial.placer;
+        Some(out)
+    })
+}
+
+/// [`crossing_inset`] with the inset `ih` mm tall.
+#[allow(clippy::too_many_arguments)]
+fn inset_of_height(
+    plan: &SheetPlan,
+    base: &mut Drawing,
+    bounds: &Rect,
+    marks: &[(f64, Vec<String>, bool)],
+    focus_x: Option<f64>,
+    label_of: &LabelOf<'_>,
+    w: &Words,
+    ih: f64,
+) -> Option<Vec<Item>> {
+    let (lo, hi) = marks.iter().fold((f64::MAX, f64::MIN), |(lo, hi), m| (lo.min(m.0), hi.max(m.0)));
+    if marks.is_empty() {
+        return None;
+    }
+    // The focus joins the region when it lies among or next to the marks.
+    let near_focus = focus_x.filter(|f| *f > lo - 6.0 && *f < hi + 6.0);
+    let mut xs: Vec<f64> = marks.iter().map(|m| m.0).chain(near_focus).collect();
+    xs.sort_by(f64::total_cmp);
+    xs.dedup_by(|a, b| (*a - *b).abs() < 0.05);
+    let (x0, x1) = (xs[0] - 2.5, xs[xs.len() - 1] + 2.5);
+    let gap = xs.windows(2).map(|p| p[1] - p[0]).fold(f64::MAX, f64::min);
+    let want = if gap.is_finite() && gap < f64::MAX { (INSET_GAP_MM / gap).ceil() } else { 2.0 };
+    let widest = bounds.width() * 0.6;
+    let k = want.clamp(2.0, 12.0).min((widest / (x1 - x0)).floor());
+    if k < 2.0 {
+        return None;
+    }
+    // The frame holds the magnified region, and is at least as wide as its title.
+    let title = w.fill("inset_title", &[("factor", &format!("{k:.0}"))]);
+    let title_w = crate::font::text_width_mm(&title, 6.5, Weight::Bold);
+    let iw = (k * (x1 - x0)).max(title_w + 3.0);
+    let pad = (iw - k * (x1 - x0)) / 2.0;
+    // A free place for the inset: along the bottom, then the top, of the
+    // drawing's room, nearest the marks first.
+    let centre = (x0 + x1) / 2.0;
+    let mut spots = Vec::new();
+    let mut x = bounds.min.x + 1.0;
+    while x + iw <= bounds.max.x - 1.0 {
+        for y in [bounds.min.y + 1.0, bounds.max.y - ih - 1.0] {
+            spots.push(Rect { min: Point::new(x, y), max: Point::new(x + iw, y + ih) });
+        }
+        x += 2.0;
+    }
+    spots.sort_by(|a, b| {
+        let d = |r: &Rect| ((r.min.x + r.max.x) / 2.0 - centre).abs();
+        d(a).total_cmp(&d(b))
+    });
+    let frame = *spots.iter().find(|r| base.placer.is_free(r, 2.0))?;
+    // The sheet-frame region shown, and the map into the inset.
+    let half = ih / k / 2.0;
+    let region = Rect { min: Point::new(x0, -half), max: Point::new(x1, half) };
+    let map = |p: Point| {
+        Point::new(frame.min.x + pad + (p.x - region.min.x) * k, frame.min.y + (p.y - region.min.y) * k)
+    };
+    // In the drawing, a thin box round the marks shows what is magnified.
+    let shown = Rect { min: Point::new(x0, -2.5), max: Point::new(x1, 2.5) };
+    let mut out = vec![
+        Item::Box { rect: frame, fill: Some(1.0), stroke: Some(Stroke::solid(0.3)) },
+        Item::Box { rect: shown, fill: None, stroke: Some(Stroke::solid(0.15).gray(0.4)) },
+    ];
+    base.placer.block(frame);
+    base.placer.block(shown);
+    let mut local = crate::draw::Placer::default();
+    let inner = Rect {
+        min: Point::new(frame.min.x + 1.0, frame.min.y + 1.0),
+        max: Point::new(frame.max.x - 1.0, frame.max.y - 5.5),
+    };
+    // The axis, then the rays' parts inside the region, thin.
+    let axis = (map(Point::new(x0, 0.0)), map(Point::new(x1, 0.0)));
+    out.push(Item::Line { from: axis.0, to: axis.1, stroke: Stroke::solid(THIN_W).dashed(AXIS_DASH) });
+    local.block_soft_line(axis.0, axis.1);
+    for r in plan.rays_top_down() {
+        let tr = &r.trace;
+        // Each ray as a short stub through its own crossing (6 mm either side
+        // in the inset), enough to show how it meets the axis.
+        let mut segs: Vec<(Point, Point, f64, bool)> = Vec::new();
+        if let (Outcome::Virtual { x_mm }, Some((p, _))) = (tr.outcome, tr.exit) {
+            segs.push((p, Point::new(x_mm, 0.0), x_mm, true));
+        }
+        if let Outcome::Crosses { x_mm } = tr.outcome {
+            let last = *tr.path.last().unwrap_or(&tr.incoming.origin);
+            let far = Point::new(x_mm, 0.0) + tr.exit_dir * 20.0;
+            segs.push((last, far, x_mm, false));
+        }
+        for (a, b, x_mm, dashed) in segs {
+            let c = map(Point::new(x_mm, 0.0));
+            let stub = Rect {
+                min: Point::new((c.x - 6.0).max(frame.min.x + 0.5), c.y - 6.0),
+                max: Point::new((c.x + 6.0).min(frame.max.x - 0.5), c.y + 6.0),
+            };
+            let Some((a, b)) = crate::draw::clip_segment(map(a), map(b), &stub) else { continue };
+            let stroke = if dashed {
+                Stroke::solid(THIN_W).gray(0.25).dashed(LINE_DASH)
+            } else {
+                Stroke::solid(RAY_W).gray(0.25)
+            };
+            out.push(Item::Line { from: a, to: b, stroke });
+            local.block_line(a, b);
+        }
+    }
+    if let Some(f) = near_focus {
+        let at = map(Point::new(f, 0.0));
+        out.push(Item::Marker { at, shape: MarkerShape::Ring, size_mm: 2.4, stroke: Stroke::solid(0.25) });
+        local.block(Rect::from_corners(at - Vec2::new(1.4, 1.4), at + Vec2::new(1.4, 1.4)));
+    }
+    let focus_at = near_focus.map(|f| map(Point::new(f, 0.0)));
+    for m in marks {
+        let at = map(Point::new(m.0, 0.0));
+        out.push(Item::Marker { at, shape: MarkerShape::Saltire, size_mm: 2.6, stroke: Stroke::solid(0.3) });
+        local.block(Rect::from_corners(at - Vec2::new(1.4, 1.4), at + Vec2::new(1.4, 1.4)));
+    }
+    // Each mark's full label, from the left (shifted to the inset's frame).
+    for m in marks {
+        let (full, _, _) = label_of(&[m]);
+        let at = map(Point::new(m.0, 0.0));
+        out.extend(inset_label(&mut local, &inner, &full, at)?);
+    }
+    // The focus's word (its value is in the key's text) after the marks' labels.
+    if let Some(at) = focus_at {
+        out.extend(inset_label(&mut local, &inner, w.say("paraxial_focus"), at)?);
+    }
+    out.push(text(
+        Point::new(frame.min.x + 1.5, frame.max.y - 3.8),
+        &title,
+        6.5,
+        Weight::Bold,
+        Anchor::Start,
+    ));
+    Some(out)
+}
+
+/// A label in the inset above or below its mark, stacked further off until
+/// it is free, centred on the mark or running off to either side of it, with
+/// a leader from the mark once it stands 3 mm or more away.
+fn inset_label(placer: &mut Placer, bounds: &Rect, s: &str, at: Point) -> Option<Vec<Item>> {
+    for k in 0..6 {
+        let dy = 3.2 + 3.4 * f64::from(k);
+        for (y, up) in [(at.y + dy, true), (at.y - dy - 1.5, false)] {
+            for (x, anchor) in
+                [(at.x, Anchor::Middle), (at.x - 1.5, Anchor::Start), (at.x + 1.5, Anchor::End)]
+            {
+                let p = Point::new(x, y);
+                let b = text_box(p, s, 6.5, Weight::Regular, anchor);
+                if !(bounds.contains(b.min) && bounds.contains(b.max) && placer.is_free(&b, 0.3)) {
+                    continue;
+                }
+                let near_y = if up { b.min.y } else { b.max.y };
+                let dir = if up { 1.0 } else { -1.0 };
+                let leader = ((near_y - at.y).abs() >= 3.0)
+                    .then(|| (Point::new(at.x, at.y + dir * 1.6), Point::new(at.x, near_y - dir * 0.3)));
+                if let Some((from, to)) = leader
+                    && !placer.is_line_free(from, to)
+                {
+                    continue;
+                }
+                placer.block(b);
+                let mut items = vec![text(p, s, 6.5, Weight::Regular, anchor)];
+                if let Some((from, to)) = leader {
+                    placer.block_line(from, to);
+                    items.push(Item::Line { from, to, stroke: Stroke::solid(0.15).gray(0.35) });
+                }
+                return Some(items);
+            }
+        }
+    }
+    None
+}
+
 /// A value label straight above or below its mark on the axis, stacked
 /// further off until it is free, with a leader (which may cross the traced
 /// rays) once it stands 3 mm or more away; `None` when nothing is free.
 fn stacked_label(placer: &mut Placer, bounds: &Rect, s: &str, at: Point) -> Option<Vec<Item>> {
     for k in 0..8 {
         let dy = 3.2 + 3.4 * f64::from(k);
-        for p in [Point::new(at.x, -dy - 1.5), Point::new(at.x, dy)] {
+        for p in [Point::new(at.x, at.y - dy - 1.5), Point::new(at.x, at.y + dy)] {
             let b = text_box(p, s, 6.5, Weight::Regular, Anchor::Middle);
             let inside = bounds.contains(b.min) && bounds.contains(b.max);
             if !inside || !placer.is_free(&b, 0.3) {
