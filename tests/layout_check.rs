@@ -683,3 +683,36 @@ proptest! {
             defects.iter().take(20).cloned().collect::<Vec<_>>().join("\n"));
     }
 }
+
+/// Issue 9, "Done when": a kit of 50 mm half-discs and 120 mm lens shapes
+/// prints on one page per sheet where the paper allows. On A4 and Letter
+/// (turned as `auto` turns them) the 100 mm tall half-disc's curved-face sheet
+/// and both 120 mm lens shapes' focal sheets take one page each: the half-disc
+/// by the compact layout (text and side blocks only as tall as the setup
+/// leaves, the 50 mm bar beside the drawing), which its focal sheet's longer
+/// key text does not fit on A4, so that one sheet takes a cover and a drawing
+/// page there.
+#[test]
+fn a_100_mm_half_disc_split_over_two_pages() {
+    let lesson =
+        Lesson::from_toml(include_str!("fixtures/issue9_class.toml"), "issue9_class.toml").expect("valid");
+    for size in ["A4", "Letter"] {
+        let paper = PaperSpec {
+            size: PaperSize::named(size).expect("named"),
+            orientation: Orientation::Auto,
+            margin_mm: 10.0,
+        };
+        let plans = plan_lesson(&lesson, &paper);
+        let pages: Vec<usize> = plans.iter().map(|p| raysheet::layout::pages_needed(p, &paper)).collect();
+        // Sheet 2 (the half-disc's focal sheet) fits Letter's compact layout
+        // (Letter landscape is 6 mm taller, 18 mm narrower than A4), not A4's.
+        let want = if size == "A4" { [1, 2, 1, 1] } else { [1, 1, 1, 1] };
+        assert_eq!(pages, want, "{size}: pages per sheet");
+        // What pages_needed says is what the layout prints.
+        let t = Templates::shipped().expect("shipped");
+        for (p, n) in plans.iter().zip(&pages) {
+            let printed = pages_for(&lesson.title, p, &paper, &t, Role::Key).expect("fits").len();
+            assert_eq!(printed, *n, "{size}: sheet {}", p.number);
+        }
+    }
+}

@@ -51,6 +51,9 @@ pub struct Regions {
     pub side_block: Rect,
     /// The safety caution.
     pub caution: Rect,
+    /// Where the 50 mm scale bar stands when the side block is too short for
+    /// it (the compact one-page layout): a strip right of the drawing.
+    pub up_strip: Option<Rect>,
 }
 
 /// Works out the page regions for this paper. Wide pages (≥ 250 mm printable)
@@ -80,7 +83,7 @@ pub fn regions(paper: &PaperSpec) -> Regions {
         )
     };
     let drawing = Rect { min: Point::new(m, footer_top + GAP_MM), max: Point::new(w - m, h - m - HEADER_MM) };
-    Regions { page: (w, h), printable, drawing, text_block, side_block, caution }
+    Regions { page: (w, h), printable, drawing, text_block, side_block, caution, up_strip: None }
 }
 
 /// How a setup is split over pages: columns × rows of tiles.
@@ -118,10 +121,64 @@ pub fn tiling_for(length: f64, height: f64, window: &Rect) -> Tiling {
     Tiling { columns: tiles_needed(length, window.width()), rows: tiles_needed(height, window.height()) }
 }
 
-/// Whether one plan's setup fits the drawing window of a one-page sheet on `paper`.
+/// Shortest the text and side blocks may become in the compact one-page
+/// layout, mm (instructions and a five-row table still fit at the smallest
+/// text size; the key plot keeps 30 mm).
+pub const COMPACT_BLOCK_MM: f64 = 44.0;
+
+/// The compact one-page layout on wide paper (text and side blocks side by
+/// side): the blocks only as tall as the setup leaves, down to
+/// [`COMPACT_BLOCK_MM`], and the 50 mm bar in a strip right of the drawing.
+/// `None` on narrow paper or when the setup needs more than that.
+fn compact_regions(paper: &PaperSpec, s: &crate::sheets::Setup) -> Option<Regions> {
+    let rg = regions(paper);
+    let p = rg.printable;
+    if p.width() < SIDE_BY_SIDE_FROM_MM {
+        return None;
+    }
+    let block = p.height() - HEADER_MM - CAUTION_MM - GAP_MM - s.height() - 0.5;
+    if !(COMPACT_BLOCK_MM..TEXT_BLOCK_MM).contains(&block) {
+        return None;
+    }
+    let top = p.min.y + CAUTION_MM + block;
+    let text_block = Rect { min: rg.text_block.min, max: Point::new(rg.text_block.max.x, top) };
+    let side_block = Rect { min: rg.side_block.min, max: Point::new(rg.side_block.max.x, top) };
+    let strip = Rect {
+        min: Point::new(p.max.x - tiles::STRIP_MM, top + GAP_MM),
+        max: Point::new(p.max.x, p.max.y - HEADER_MM),
+    };
+    let drawing = Rect {
+        min: Point::new(p.min.x, top + GAP_MM),
+        max: Point::new(strip.min.x - 1.0, p.max.y - HEADER_MM),
+    };
+    let fits = s.length() <= drawing.width() + 1e-9 && s.height() <= drawing.height() + 1e-9;
+    fits.then_some(Regions { drawing, text_block, side_block, up_strip: Some(strip), ..rg })
+}
+
+/// The regions of a one-page sheet for this plan, if it has one: the usual
+/// ones when the setup fits their drawing window, else the compact ones when
+/// the setup fits theirs and the text (with templates `t`) fits their blocks.
+pub fn one_page_regions(p: &SheetPlan, paper: &PaperSpec, t: &Templates) -> Option<Regions> {
+    let s = p.setup();
+    let rg = regions(paper);
+    if tiling_for(s.length(), s.height(), &rg.drawing).pages() == 1 {
+        return Some(rg);
+    }
+    let c = compact_regions(paper, &s)?;
+    let text_fits =
+        [Role::Student, Role::Key].iter().all(|&role| text_block(p, &c.text_block, t, role).is_ok());
+    text_fits.then_some(c)
+}
+
+/// Whether one plan prints on one page of `paper` (with the shipped text; see
+/// [`one_page_regions`]).
 pub fn fits_one_page(p: &SheetPlan, paper: &PaperSpec) -> bool {
     let s = p.setup();
-    tiling_for(s.length(), s.height(), &regions(paper).drawing).pages() == 1
+    if tiling_for(s.length(), s.height(), &regions(paper).drawing).pages() == 1 {
+        return true;
+    }
+    compact_regions(paper, &s).is_some()
+        && Templates::shipped().is_ok_and(|t| one_page_regions(p, paper, &t).is_some())
 }
 
 /// How one plan's drawing is tiled on `paper` as it is turned (see
@@ -244,7 +301,7 @@ pub fn pages_for(
     let cy = (s.y_min + s.y_max) / 2.0;
     let stem = page_stem(p, role);
     let view = p.view();
-    if fits_one_page(p, paper) {
+    if let Some(rg) = one_page_regions(p, paper, t) {
         // Labels may go anywhere in the window around the centred setup.
         let win = rg.drawing;
         let spare_x = (win.width() - length) / 2.0;
@@ -264,7 +321,13 @@ pub fn pages_for(
         let mut page_items = header(kit_title, p, &rg, &head, role, None, w);
         page_items.push(Item::Group { clip: win, offset, items });
         page_items.extend(text_block(p, &rg.text_block, t, role).map_err(at)?);
-        page_items.extend(side_block(p, &rg.side_block, &labels, role, w));
+        match rg.up_strip {
+            Some(strip) => {
+                page_items.extend(side_block_without_up_bar(p, &rg.side_block, &labels, role, w));
+                page_items.extend(up_bar(strip.max.x - 3.0, strip.min.y + 2.0, &labels));
+            }
+            None => page_items.extend(side_block(p, &rg.side_block, &labels, role, w)),
+        }
         page_items.extend(foot);
         return Ok(vec![Page { width_mm: rg.page.0, height_mm: rg.page.1, name: stem, items: page_items }]);
     }
@@ -936,11 +999,42 @@ fn up_bar(vx: f64, vy0: f64, labels: &ScaleLabels) -> Vec<Item> {
 
 fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, w: &Words) -> Vec<Item> {
     // Scale checks: 100 mm across at the bottom, 50 mm up at the right.
+    side_block_rest(p, r, Some(r.max.x - 3.0), labels, role, w)
+}
+
+/// The side block with the 50 mm bar elsewhere (the compact layout's strip):
+/// the plot or note may run to the block's right edge.
+fn side_block_without_up_bar(
+    p: &SheetPlan,
+    r: &Rect,
+    labels: &ScaleLabels,
+    role: Role,
+    w: &Words,
+) -> Vec<Item> {
+    side_block_rest(p, r, None, labels, role, w)
+}
+
+/// The 100 mm bar at the bottom of the side block, the 50 mm bar at `up_x`
+/// (if here), and above the 100 mm bar, left of the 50 mm one, the key's plot
+/// or the student note.
+fn side_block_rest(
+    p: &SheetPlan,
+    r: &Rect,
+    up_x: Option<f64>,
+    labels: &ScaleLabels,
+    role: Role,
+    w: &Words,
+) -> Vec<Item> {
     let y = r.min.y + 6.0;
     let mut out = across_bar(r.min.x + 1.0, y, labels);
-    let vx = r.max.x - 3.0;
-    out.extend(up_bar(vx, r.min.y + 4.0, labels));
-    let upper = Rect { min: Point::new(r.min.x, y + 8.0), max: Point::new(vx - 6.0, r.max.y) };
+    let right = match up_x {
+        Some(vx) => {
+            out.extend(up_bar(vx, r.min.y + 4.0, labels));
+            vx - 6.0
+        }
+        None => r.max.x - 1.0,
+    };
+    let upper = Rect { min: Point::new(r.min.x, y + 8.0), max: Point::new(right, r.max.y) };
     if role == Role::Key && upper.height() > 20.0 {
         out.extend(p.view().key_plot(upper, w));
     } else if role == Role::Student
