@@ -42,6 +42,14 @@ fn read_bytes(path: &Path, what: &str) -> Source<Vec<u8>> {
     Source { path: path.to_path_buf(), content: read_limited(path, MAX_INPUT_BYTES, what) }
 }
 
+/// Largest answer file read, bytes: a 60-group class set's is a few MiB.
+const MAX_ANSWERS_BYTES: u64 = 64 << 20;
+
+/// The answer file's bytes (a larger limit than a kit's).
+fn read_limited_source(path: &Path) -> Source<Vec<u8>> {
+    Source { path: path.to_path_buf(), content: read_limited(path, MAX_ANSWERS_BYTES, "answer file") }
+}
+
 /// Reads the files the command needs; the job judges what was read.
 fn read_inputs(wanted: &Wanted) -> Inputs {
     Inputs {
@@ -63,6 +71,10 @@ fn read_inputs(wanted: &Wanted) -> Inputs {
                 (name.clone(), Source { path: path.clone(), content })
             })
             .collect(),
+        marking: wanted
+            .marking
+            .as_ref()
+            .map(|(results, answers)| (read_bytes(results, "results file"), read_limited_source(answers))),
     }
 }
 

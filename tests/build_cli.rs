@@ -43,10 +43,11 @@ fn build_writes_sheets_keys_svgs_and_answers() {
         tmp.path(),
     );
     assert_code(&out, 0);
-    // Issue 3, Output: sheets.pdf, keys.pdf, one SVG per sheet and per key, answers.json.
+    // Issue 3, Output: sheets.pdf, keys.pdf, one SVG per sheet and per key,
+    // answers.json; issue 11: results.csv for marking.
     assert_eq!(
         outputs(&out_dir),
-        ["answers.json", "keys.pdf", "sheets.pdf", "svg/key-01.svg", "svg/sheet-01.svg"]
+        ["answers.json", "keys.pdf", "results.csv", "sheets.pdf", "svg/key-01.svg", "svg/sheet-01.svg"]
     );
     for pdf in ["sheets.pdf", "keys.pdf"] {
         assert!(std::fs::read(out_dir.join(pdf)).unwrap().starts_with(b"%PDF-"), "{pdf}");
@@ -73,7 +74,7 @@ fn format_pdf_writes_no_svg() {
         tmp.path(),
     );
     assert_code(&out, 0);
-    assert_eq!(outputs(&out_dir), ["answers.json", "keys.pdf", "sheets.pdf"]);
+    assert_eq!(outputs(&out_dir), ["answers.json", "keys.pdf", "results.csv", "sheets.pdf"]);
     assert!(!out_dir.join("svg").exists());
 }
 
@@ -119,7 +120,7 @@ fn building_twice_into_the_same_folder_overwrites_its_own_files() {
         first,
         "the same kit gives the same bytes"
     );
-    assert_eq!(outputs(&out_dir), ["answers.json", "keys.pdf", "sheets.pdf"]);
+    assert_eq!(outputs(&out_dir), ["answers.json", "keys.pdf", "results.csv", "sheets.pdf"]);
 }
 
 #[test]

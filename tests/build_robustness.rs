@@ -240,6 +240,15 @@ proptest! {
                         let svg = std::str::from_utf8(&f.bytes).unwrap();
                         no_non_finite(&f.path, svg)?;
                         prop_assert!(usvg::Tree::from_str(svg, &usvg::Options::default()).is_ok(), "{}", f.path);
+                    } else if f.path.ends_with(".csv") {
+                        // results.csv: the fixed header, then one row per answer
+                        // measured, each with the header's seven fields.
+                        let text = std::str::from_utf8(&f.bytes).unwrap();
+                        prop_assert!(text.starts_with("group,variant,sheet,ray,quantity,unit,measured\n"));
+                        let mut r = csv::Reader::from_reader(f.bytes.as_slice());
+                        for rec in r.records() {
+                            prop_assert!(rec.is_ok_and(|rec| rec.len() == 7), "{}", f.path);
+                        }
                     } else {
                         let doc = lopdf::Document::load_mem(&f.bytes);
                         prop_assert!(doc.is_ok(), "{} does not load", f.path);

@@ -48,6 +48,20 @@ pub enum Command {
         class: ClassArgs,
     },
     /// Write the shipped sheet text (instructions, table headings, caution) into a folder to edit.
+    /// Mark a class's filled-in results.csv against the answers the build wrote.
+    Grade {
+        /// The results file (the build's results.csv, with the `measured` column filled in).
+        results: PathBuf,
+        /// Folder to write grades.csv into.
+        #[arg(long)]
+        out: PathBuf,
+        /// The build's answer file (default: answers.json beside the results file).
+        #[arg(long, value_name = "FILE")]
+        answers: Option<PathBuf>,
+        /// Overwrite files in the output folder that raysheet did not write.
+        #[arg(long)]
+        force: bool,
+    },
     Templates {
         /// The folder to write them into.
         #[arg(long)]

@@ -41,7 +41,12 @@ pub struct Wanted {
     /// Template files that may sit in `--templates DIR`, by file name: read
     /// those that exist.
     pub templates: Vec<(String, PathBuf)>,
+    /// `grade`: the results file and the answer file.
+    pub marking: Option<(PathBuf, PathBuf)>,
 }
+
+/// A file's bytes as read.
+pub type Bytes = Source<Vec<u8>>;
 
 /// What `main.rs` read for the command, as [`Wanted`] asked.
 #[derive(Clone, Debug, Default, PartialEq)]
@@ -52,6 +57,8 @@ pub struct Inputs {
     pub roster: Option<Source<Vec<u8>>>,
     /// The template files that exist, by file name, as text.
     pub templates: Vec<(String, Source<String>)>,
+    /// `grade`: the results file's and the answer file's bytes.
+    pub marking: Option<(Bytes, Bytes)>,
 }
 
 /// The files `command` needs read.
@@ -65,12 +72,21 @@ pub fn wanted(command: &Command) -> Wanted {
         Command::Solve { kit, class, .. } => {
             Wanted { kit: Some(kit.clone()), roster: class.roster.clone(), ..Wanted::default() }
         }
-        Command::Build { kit, out, class, .. } => {
-            Wanted { kit: Some(kit.clone()), roster: class.roster.clone(), templates: templates(out) }
-        }
+        Command::Build { kit, out, class, .. } => Wanted {
+            kit: Some(kit.clone()),
+            roster: class.roster.clone(),
+            templates: templates(out),
+            marking: None,
+        },
         Command::Demo { print_kit: true, .. } | Command::Templates { .. } => Wanted::default(),
+        Command::Grade { results, answers, .. } => {
+            let answers = answers
+                .clone()
+                .unwrap_or_else(|| results.parent().unwrap_or(std::path::Path::new("")).join("answers.json"));
+            Wanted { marking: Some((results.clone(), answers)), ..Wanted::default() }
+        }
         Command::Demo { out, class, .. } => {
-            Wanted { kit: None, roster: class.roster.clone(), templates: templates(out) }
+            Wanted { kit: None, roster: class.roster.clone(), templates: templates(out), marking: None }
         }
     }
 }
@@ -132,6 +148,21 @@ pub enum Job {
     },
     /// Build sheets, keys and answers into a folder.
     Build(Box<BuildJob>),
+    /// Mark a results file against an answer file.
+    Grade {
+        /// The results file's text.
+        results: String,
+        /// Its name, for messages.
+        results_file: String,
+        /// The answer file's text.
+        answers: String,
+        /// Its name, for messages.
+        answers_file: String,
+        /// The folder to write grades.csv into.
+        dir: PathBuf,
+        /// Overwrite files there that raysheet did not write.
+        force: bool,
+    },
     /// Write the shipped sheet text into a folder.
     WriteTemplates {
         /// The folder.
@@ -169,6 +200,22 @@ impl Job {
                 build_job(kit, dir, &out, &paper, &class, &inputs)
             }
             Command::Templates { out, force } => Ok(Job::WriteTemplates { dir: out, force }),
+            Command::Grade { out, force, .. } => {
+                let Some((results, answers)) = inputs.marking else {
+                    return Err(Failure::Other("grade: the results and answer files were not read".into()));
+                };
+                let text = |s: Source<Vec<u8>>| -> Result<(String, String), Failure> {
+                    let name = s.path.display().to_string();
+                    let bytes = s.content.map_err(|e| Failure::Input(format!("{name}: cannot read: {e}")))?;
+                    // A spreadsheet's UTF-8 or UTF-16 CSV, decoded as rosters are.
+                    let (text, _) = crate::plan::decode_roster(&bytes, &name)
+                        .map_err(|e| Failure::Input(e.to_string().replace("field `name`: ", "")))?;
+                    Ok((name, text))
+                };
+                let (results_file, results) = text(results)?;
+                let (answers_file, answers) = text(answers)?;
+                Ok(Job::Grade { results, results_file, answers, answers_file, dir: out, force })
+            }
             Command::Demo { print_kit: true, .. } => Ok(Job::PrintDemoKit),
             Command::Demo { out, class, .. } => {
                 let kit = Lesson::from_toml(demo::DEMO_KIT, demo::DEMO_NAME)

@@ -28,6 +28,8 @@ enum Written {
     Build,
     /// The shipped sheet text.
     Templates,
+    /// The marks.
+    Grades,
 }
 
 /// Files to write into a folder, and what to say once they are written.
@@ -42,6 +44,8 @@ pub struct Writing {
     /// Warnings for the teacher, shown once the files are written.
     pub warnings: Vec<String>,
     what: Written,
+    /// Text printed before the list of files (the marks' overview).
+    overview: String,
 }
 
 impl Writing {
@@ -51,6 +55,7 @@ impl Writing {
         match self.what {
             Written::Build => "build",
             Written::Templates => "templates",
+            Written::Grades => "grades",
         }
     }
 
@@ -71,6 +76,13 @@ impl Writing {
                     s.push_str(&format!("  and {svgs} SVG files in svg/ folders\n"));
                 }
                 s.push_str("Print at actual size (100 %) and check both scale bars before the lesson.\n");
+            }
+            Written::Grades => {
+                s.push_str(&self.overview);
+                s.push_str(&format!("Wrote {} file(s) to {dir}:\n", written.len()));
+                for w in written {
+                    s.push_str(&format!("  {}\n", w.display()));
+                }
             }
             Written::Templates => {
                 s.push_str(&format!("Wrote {} template files to {dir}:\n", written.len()));
@@ -98,7 +110,26 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
             force,
             warnings: Vec::new(),
             what: Written::Templates,
+            overview: String::new(),
         })),
+        Job::Grade { results, results_file, answers: answers_text, answers_file, dir, force } => {
+            let g = crate::output::grade::grade(&results, &results_file, &answers_text, &answers_file)
+                .map_err(|e| Failure::Input(e.to_string()))?;
+            let mut overview =
+                String::from("group: answers within tolerance / answers measured (answers asked)\n");
+            for (group, within, measured, asked) in &g.groups {
+                let name = if group.is_empty() { "(no group)" } else { group };
+                overview.push_str(&format!("  {name}: {within} / {measured} ({asked})\n"));
+            }
+            Ok(Outcome::Write(Writing {
+                dir,
+                files: vec![Output { path: "grades.csv".into(), bytes: g.csv.into_bytes() }],
+                force,
+                warnings: g.warnings,
+                what: Written::Grades,
+                overview,
+            }))
+        }
         Job::PrintDemoKit => Ok(Outcome::Print(demo::DEMO_KIT.to_string())),
     }
 }
@@ -210,7 +241,7 @@ fn build(job: BuildJob) -> Result<Writing, Failure> {
         BuildError::Empty => Failure::Input(format!("{e} (`raysheet check KIT` lists them)")),
         _ => Failure::Input(e.to_string()),
     })?;
-    Ok(Writing { dir, files, force, warnings, what: Written::Build })
+    Ok(Writing { dir, files, force, warnings, what: Written::Build, overview: String::new() })
 }
 
 /// The shipped sheet text, one file per template.
@@ -244,7 +275,7 @@ mod tests {
             panic!("a demo build writes files")
         };
         let paths: Vec<&str> = w.files.iter().map(|f| f.path.as_str()).collect();
-        assert_eq!(paths, ["sheets.pdf", "keys.pdf", "answers.json"]);
+        assert_eq!(paths, ["sheets.pdf", "keys.pdf", "answers.json", "results.csv"]);
         let written: Vec<PathBuf> =
             ["d/sheets.pdf", "d/svg/sheet-01.svg", "d/svg/key-01.svg"].iter().map(PathBuf::from).collect();
         assert_eq!(

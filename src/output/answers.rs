@@ -26,6 +26,7 @@ pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> Strin
             if let Value::Object(kind) = p.view().answers() {
                 m.extend(kind);
             }
+            m.insert("measured".into(), measured_json(p));
             m.insert("warnings".into(), json!(p.warnings));
             Value::Object(m)
         })
@@ -34,4 +35,21 @@ pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> Strin
     let mut s = serde_json::to_string_pretty(&file).unwrap_or_else(|e| format!("{{\"error\": \"{e}\"}}"));
     s.push('\n');
     s
+}
+
+/// What a student measures on the sheet, as `results.csv` and marking use it:
+/// `{ray, quantity, unit, value, tolerance}` or `{ray, quantity, observation}`.
+fn measured_json(p: &SheetPlan) -> Value {
+    p.view()
+        .measured()
+        .into_iter()
+        .map(|m| match m.want {
+            crate::sheets::Want::Value { value, tolerance } => json!({
+                "ray": m.ray, "quantity": m.quantity, "unit": m.unit, "value": value, "tolerance": tolerance,
+            }),
+            crate::sheets::Want::Observation(word) => json!({
+                "ray": m.ray, "quantity": m.quantity, "observation": word,
+            }),
+        })
+        .collect()
 }

@@ -1,7 +1,7 @@
 //! A whole build as values: every output file's relative path and bytes.
 //! Writing them to disk (atomically, without clobbering) is `main.rs`'s job.
 
-use super::{answers, summary};
+use super::{answers, results, summary};
 use crate::kit::Kit;
 use crate::layout::{self, Templates};
 use crate::paper::PaperSpec;
@@ -175,6 +175,7 @@ pub fn build_plans_with(
         path: "answers.json".into(),
         bytes: answers::to_json(&kit.title, seed, plans).into_bytes(),
     });
+    out.push(Output { path: "results.csv".into(), bytes: results::results_csv(plans).into_bytes() });
     Ok(out)
 }
 
@@ -238,6 +239,7 @@ pub fn build_class_with(
     }
     out.push(Output { path: "summary.csv".into(), bytes: summary::summary_csv(class).into_bytes() });
     let flat: Vec<SheetPlan> = class.plans.iter().flatten().cloned().collect();
+    out.push(Output { path: "results.csv".into(), bytes: results::results_csv(&flat).into_bytes() });
     out.push(Output {
         path: "answers.json".into(),
         bytes: answers::to_json(&kit.title, Some(class.seed), &flat).into_bytes(),

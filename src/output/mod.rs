@@ -3,7 +3,9 @@
 
 pub mod answers;
 pub mod build;
+pub mod grade;
 pub mod report;
+pub mod results;
 pub mod summary;
 
 pub use build::{

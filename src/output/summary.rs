@@ -8,7 +8,7 @@ use crate::sheets::ClassPlan;
 /// advises: a field that starts with `=`, `+`, `-`, `@`, a tab or a carriage
 /// return gets a leading `'` and is quoted. Numbers (a height of `-12.500`)
 /// are left as numbers.
-fn field(s: &str) -> String {
+pub(crate) fn field(s: &str) -> String {
     let formula =
         s.starts_with(['=', '+', '-', '@', '\t', '\r']) && !s.parse::<f64>().is_ok_and(f64::is_finite);
     if formula {

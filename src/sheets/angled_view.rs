@@ -325,3 +325,20 @@ pub fn student_drawing<F: FaceName>(
     d.items = super::angled_drawing::student(plan, &bounds, &mut d.placer, w);
     d
 }
+
+/// One graded angle-sheet answer: the value with its accept range, or, when
+/// the value is not defined for this ray, the ray's outcome word.
+pub fn measured_one<F: FaceName>(
+    plan: &AngledPlan<F>,
+    r: &AngledRay<F>,
+    quantity: &'static str,
+    unit: &'static str,
+    value: &Result<f64, crate::optics::measure::NotDefined>,
+    tolerance: f64,
+) -> crate::sheets::Measured {
+    let want = match value {
+        Ok(v) => crate::sheets::Want::Value { value: *v + 0.0, tolerance },
+        Err(_) => crate::sheets::Want::Observation(outcome(plan, r)),
+    };
+    crate::sheets::Measured { ray: r.letter.clone(), quantity, unit, want }
+}

@@ -215,6 +215,26 @@ pub struct BlockPlan {
 }
 
 impl SheetView for BlockPlan {
+    fn measured(&self) -> Vec<crate::sheets::Measured> {
+        let p = &self.plan;
+        p.rays
+            .iter()
+            .filter(|r| av::graded(r))
+            .flat_map(|r| {
+                [
+                    av::measured_one(
+                        p,
+                        r,
+                        "refraction_angle_deg",
+                        "deg",
+                        &r.refraction_deg,
+                        r.refraction_tolerance_deg,
+                    ),
+                    av::measured_one(p, r, "lateral_shift_mm", "mm", &r.lateral_shift_mm, r.tolerance_mm),
+                ]
+            })
+            .collect()
+    }
     fn extent(&self) -> Setup {
         self.setup
     }

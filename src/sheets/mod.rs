@@ -174,6 +174,35 @@ impl Detail {
 /// in the answer file.
 pub type SummaryRow = Vec<(&'static str, String)>;
 
+/// One answer a student measures on a sheet: what `results.csv` asks for and
+/// what marking compares against (issue 11).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Measured {
+    /// The ray's letter as printed.
+    pub ray: String,
+    /// The quantity's name (also its name in the answer file's `measured`).
+    pub quantity: &'static str,
+    /// Its unit: `mm`, `deg`, or empty for an observation.
+    pub unit: &'static str,
+    /// The exact answer.
+    pub want: Want,
+}
+
+/// The exact answer to one measurement.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Want {
+    /// A number, accepted within ± `tolerance`.
+    Value {
+        /// The exact value, as the key's table gives it.
+        value: f64,
+        /// Half the accept range.
+        tolerance: f64,
+    },
+    /// A word the student writes instead of a number (a ray totally
+    /// reflected, the face a ray leaves by).
+    Observation(&'static str),
+}
+
 /// What layout and output ask of a planned sheet. Everything printed takes
 /// the words to print with ([`Words`], from `templates/words.toml`).
 pub trait SheetView {
@@ -210,6 +239,9 @@ pub trait SheetView {
     fn summary_cells(&self, w: &Words) -> Vec<[String; 5]>;
     /// The `check`/`solve` text for the sheet (after its heading line).
     fn report(&self) -> String;
+    /// Every graded answer a student measures, ray by ray in letter order,
+    /// as the table's columns ask for them.
+    fn measured(&self) -> Vec<Measured>;
 }
 
 impl SheetPlan {

@@ -371,6 +371,35 @@ impl PrismPlan {
 }
 
 impl SheetView for PrismPlan {
+    fn measured(&self) -> Vec<crate::sheets::Measured> {
+        let p = &self.plan;
+        let mut out = Vec::new();
+        for r in p.rays.iter().filter(|r| av::graded(r)) {
+            if self.turns() {
+                let want = match &r.exit {
+                    Ok((f, _)) => crate::sheets::Want::Observation(av::FaceName::name(*f)),
+                    Err(_) => crate::sheets::Want::Observation(av::outcome(p, r)),
+                };
+                out.push(crate::sheets::Measured {
+                    ray: r.letter.clone(),
+                    quantity: "exit_face",
+                    unit: "",
+                    want,
+                });
+            } else {
+                out.push(av::measured_one(
+                    p,
+                    r,
+                    "emergence_angle_deg",
+                    "deg",
+                    &r.emergence_deg,
+                    r.tolerance_deg,
+                ));
+            }
+            out.push(av::measured_one(p, r, "deviation_deg", "deg", &r.deviation_deg, r.tolerance_deg));
+        }
+        out
+    }
     fn extent(&self) -> Setup {
         self.setup
     }

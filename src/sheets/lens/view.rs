@@ -10,7 +10,7 @@ use crate::draw::{Drawing, Words};
 use crate::optics::Outcome;
 use crate::plan::{fmt_mm, fmt1, fmt2_or_none};
 use crate::scene::{Item, Rect};
-use crate::sheets::{Setup, SheetKind, SheetView, SummaryRow};
+use crate::sheets::{Measured, Setup, SheetKind, SheetView, SummaryRow, Want};
 
 /// −0.0 written as 0.0 (adding +0.0 does exactly that in IEEE 754).
 fn z(v: Option<f64>) -> Option<f64> {
@@ -134,6 +134,47 @@ impl LensPlan {
 impl SheetView for LensPlan {
     fn extent(&self) -> Setup {
         self.setup
+    }
+
+    fn measured(&self) -> Vec<Measured> {
+        // Where the table's columns measure from, by the columns' own words:
+        // the flat and the curved face on curved-face sheets, the exit face and
+        // the centre line on focal sheets (traced back for a virtual crossing).
+        let t = self.outline.t();
+        let flat_first = matches!(self.outline.entry_face, crate::optics::Face::Flat);
+        let refs: [(&'static str, &'static str, f64); 2] = match self.kind {
+            SheetKind::CurvedFace => {
+                let (flat, curved) = if flat_first { (0.0, t) } else { (t, 0.0) };
+                [
+                    ("crossing_from_flat_face_mm", "crossing_from_flat_face_mm", flat),
+                    ("crossing_from_curved_face_mm", "crossing_from_curved_face_mm", curved),
+                ]
+            }
+            _ => [
+                ("crossing_from_exit_face_mm", "traced_back_from_exit_face_mm", t),
+                (
+                    "crossing_from_centre_line_mm",
+                    "traced_back_from_centre_line_mm",
+                    drawing::centre_line_x(&self.outline),
+                ),
+            ],
+        };
+        let mut out = Vec::new();
+        for r in self.rays_top_down() {
+            let (true, Some(tolerance)) = (r.graded, r.tolerance_mm) else { continue };
+            let virtual_ = matches!(r.trace.outcome, Outcome::Virtual { .. });
+            for (real, traced_back, x_ref) in refs {
+                if let Some(value) = self.table_distance(r, x_ref) {
+                    out.push(Measured {
+                        ray: r.letter.clone(),
+                        quantity: if virtual_ { traced_back } else { real },
+                        unit: "mm",
+                        want: Want::Value { value: value + 0.0, tolerance },
+                    });
+                }
+            }
+        }
+        out
     }
 
     fn student(&self, bounds: Rect, w: &Words) -> Drawing {
