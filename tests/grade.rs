@@ -195,3 +195,44 @@ fn bad_rows_are_refused_with_their_place() {
     assert_code(&out, 0);
     assert!(text(&out.stderr).contains("variant \"2E+45\" differs"), "{}", text(&out.stderr));
 }
+
+/// `raysheet fit KIT RESULTS`: the kit's line to change, and the JSON the
+/// issue fixes (`materials`: `material`, `index`, `uncertainty`, `measurements`).
+#[test]
+fn fit_prints_the_index_and_the_kit_line() {
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = tmp.path();
+    build(dir);
+    std::fs::write(
+        dir.join("build/results.csv"),
+        fill(dir, ',', |i, m| {
+            let (v, t) = (m["value"].as_f64().unwrap(), m["tolerance"].as_f64().unwrap());
+            format!("{:.2}", v + if i % 2 == 0 { 0.3 * t } else { -0.3 * t })
+        }),
+    )
+    .unwrap();
+    let kit = fixture_path("class_trio.toml");
+    let out = raysheet(&["fit", &kit, "build/results.csv"], dir);
+    assert_code(&out, 0);
+    let t = text(&out.stdout);
+    assert!(
+        t.starts_with("acrylic-f: n = 1.4") && t.contains("In the kit: [materials.acrylic-f] index = 1."),
+        "{t}"
+    );
+    let out = raysheet(&["fit", &kit, "build/results.csv", "--json"], dir);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let m = &v["materials"][0];
+    assert_eq!(m["material"], "acrylic-f");
+    assert!(m["index"].as_f64().unwrap() > 1.4 && m["uncertainty"].as_f64().unwrap() > 0.0, "{v}");
+    assert_eq!(m["measurements"].as_u64().unwrap() as usize, expected(dir).len());
+    // Too few numbers: said, no index.
+    let one =
+        fill(
+            dir,
+            ',',
+            |i, m| if i == 0 { format!("{:.1}", m["value"].as_f64().unwrap()) } else { String::new() },
+        );
+    std::fs::write(dir.join("build/results.csv"), one).unwrap();
+    let t = text(&raysheet(&["fit", &kit, "build/results.csv"], dir).stdout);
+    assert!(t.contains("no index: 1 number measured"), "{t}");
+}

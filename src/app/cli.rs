@@ -48,6 +48,21 @@ pub enum Command {
         class: ClassArgs,
     },
     /// Write the shipped sheet text (instructions, table headings, caution) into a folder to edit.
+    /// Fit each material's index to what the class measured (a filled-in results.csv).
+    Fit {
+        /// The kit the build was made from.
+        kit: PathBuf,
+        /// The results file with the `measured` column filled in.
+        results: PathBuf,
+        /// The build's answer file (default: answers.json beside the results file).
+        #[arg(long, value_name = "FILE")]
+        answers: Option<PathBuf>,
+        /// Print the fit as JSON.
+        #[arg(long)]
+        json: bool,
+        #[command(flatten)]
+        paper: PaperArgs,
+    },
     /// Mark a class's filled-in results.csv against the answers the build wrote.
     Grade {
         /// The results file (the build's results.csv, with the `measured` column filled in).

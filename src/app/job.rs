@@ -79,6 +79,12 @@ pub fn wanted(command: &Command) -> Wanted {
             marking: None,
         },
         Command::Demo { print_kit: true, .. } | Command::Templates { .. } => Wanted::default(),
+        Command::Fit { kit, results, answers, .. } => {
+            let answers = answers
+                .clone()
+                .unwrap_or_else(|| results.parent().unwrap_or(std::path::Path::new("")).join("answers.json"));
+            Wanted { kit: Some(kit.clone()), marking: Some((results.clone(), answers)), ..Wanted::default() }
+        }
         Command::Grade { results, answers, .. } => {
             let answers = answers
                 .clone()
@@ -89,6 +95,16 @@ pub fn wanted(command: &Command) -> Wanted {
             Wanted { kit: None, roster: class.roster.clone(), templates: templates(out), marking: None }
         }
     }
+}
+
+/// A results or answer file's text: UTF-8 or UTF-16 with a byte-order mark,
+/// decoded as rosters are (spreadsheets save both).
+fn marking_text(s: Bytes) -> Result<(String, String), Failure> {
+    let name = s.path.display().to_string();
+    let bytes = s.content.map_err(|e| Failure::Input(format!("{name}: cannot read: {e}")))?;
+    let (text, _) = crate::plan::decode_roster(&bytes, &name)
+        .map_err(|e| Failure::Input(e.to_string().replace("field `name`: ", "")))?;
+    Ok((name, text))
 }
 
 /// A class set's groups and seed.
@@ -148,6 +164,23 @@ pub enum Job {
     },
     /// Build sheets, keys and answers into a folder.
     Build(Box<BuildJob>),
+    /// Fit each material's index to a results file.
+    Fit {
+        /// The kit the build was made from.
+        kit: Lesson,
+        /// The paper (the build's, for its safe bands).
+        paper: PaperSpec,
+        /// The results file's text.
+        results: String,
+        /// Its name, for messages.
+        results_file: String,
+        /// The answer file's text.
+        answers: String,
+        /// Its name, for messages.
+        answers_file: String,
+        /// JSON instead of text.
+        json: bool,
+    },
     /// Mark a results file against an answer file.
     Grade {
         /// The results file's text.
@@ -200,20 +233,22 @@ impl Job {
                 build_job(kit, dir, &out, &paper, &class, &inputs)
             }
             Command::Templates { out, force } => Ok(Job::WriteTemplates { dir: out, force }),
+            Command::Fit { json, paper, .. } => {
+                let kit = kit_from(inputs.kit.as_ref())?;
+                let paper = resolve_paper(&kit.paper, &paper)?;
+                let Some((results, answers)) = inputs.marking else {
+                    return Err(Failure::Other("fit: the results and answer files were not read".into()));
+                };
+                let (results_file, results) = marking_text(results)?;
+                let (answers_file, answers) = marking_text(answers)?;
+                Ok(Job::Fit { kit, paper, results, results_file, answers, answers_file, json })
+            }
             Command::Grade { out, force, .. } => {
                 let Some((results, answers)) = inputs.marking else {
                     return Err(Failure::Other("grade: the results and answer files were not read".into()));
                 };
-                let text = |s: Source<Vec<u8>>| -> Result<(String, String), Failure> {
-                    let name = s.path.display().to_string();
-                    let bytes = s.content.map_err(|e| Failure::Input(format!("{name}: cannot read: {e}")))?;
-                    // A spreadsheet's UTF-8 or UTF-16 CSV, decoded as rosters are.
-                    let (text, _) = crate::plan::decode_roster(&bytes, &name)
-                        .map_err(|e| Failure::Input(e.to_string().replace("field `name`: ", "")))?;
-                    Ok((name, text))
-                };
-                let (results_file, results) = text(results)?;
-                let (answers_file, answers) = text(answers)?;
+                let (results_file, results) = marking_text(results)?;
+                let (answers_file, answers) = marking_text(answers)?;
                 Ok(Job::Grade { results, results_file, answers, answers_file, dir: out, force })
             }
             Command::Demo { print_kit: true, .. } => Ok(Job::PrintDemoKit),

@@ -112,6 +112,16 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
             what: Written::Templates,
             overview: String::new(),
         })),
+        Job::Fit { kit, paper, results, results_file, answers: answers_text, answers_file, json } => {
+            let fits =
+                crate::output::fit::fit(&kit, &paper, &results, &results_file, &answers_text, &answers_file)
+                    .map_err(|e| Failure::Input(e.to_string()))?;
+            Ok(Outcome::Print(if json {
+                crate::output::fit::fit_json(&fits)
+            } else {
+                crate::output::fit::fit_text(&fits)
+            }))
+        }
         Job::Grade { results, results_file, answers: answers_text, answers_file, dir, force } => {
             let g = crate::output::grade::grade(&results, &results_file, &answers_text, &answers_file)
                 .map_err(|e| Failure::Input(e.to_string()))?;

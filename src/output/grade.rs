@@ -62,7 +62,7 @@ enum Want {
 }
 
 /// (group, sheet, ray, quantity).
-type Key = (String, u64, String, String);
+pub(crate) type Key = (String, u64, String, String);
 
 /// The expected answers in an answer file, and its groups in order.
 fn expected(answers: &str, file: &str) -> Result<(BTreeMap<Key, Expected>, Vec<String>), GradeError> {
@@ -151,6 +151,15 @@ fn number(cell: &str, decimal_comma: bool) -> Result<f64, String> {
     ))
 }
 
+/// A results file read against its answer file: every row's key, measured
+/// cell and verdict (`None`: not measured), in file order.
+pub(crate) struct Parsed {
+    want: BTreeMap<Key, Expected>,
+    groups: Vec<String>,
+    pub(crate) rows: Vec<(Key, String, Option<Verdict>)>,
+    warnings: Vec<String>,
+}
+
 /// Marks `results` (the text of `results_file`) against the answer file.
 pub fn grade(
     results: &str,
@@ -158,6 +167,18 @@ pub fn grade(
     answers: &str,
     answers_file: &str,
 ) -> Result<Grades, GradeError> {
+    let Parsed { want, groups, rows, warnings } = parse(results, results_file, answers, answers_file)?;
+    grades_of(want, groups, rows, warnings)
+}
+
+/// Reads and checks a results file against its answer file (every row's
+/// place in both), without marking.
+pub(crate) fn parse(
+    results: &str,
+    results_file: &str,
+    answers: &str,
+    answers_file: &str,
+) -> Result<Parsed, GradeError> {
     let (want, groups) = expected(answers, answers_file)?;
     let results = results.strip_prefix('\u{feff}').unwrap_or(results);
     let sep = separator(results);
@@ -283,7 +304,11 @@ pub fn grade(
                     };
                     // Angles from the normal are read as sizes on a protractor.
                     let (m, v) = if exp.unit == "deg" { (m.abs(), value.abs()) } else { (m, *value) };
-                    Verdict::Number { difference: m - v, within: (m - v).abs() <= tolerance + 1e-9 }
+                    Verdict::Number {
+                        measured: m,
+                        difference: m - v,
+                        within: (m - v).abs() <= tolerance + 1e-9,
+                    }
                 }
                 Want::Observation(word) => {
                     let same = measured.trim().eq_ignore_ascii_case(word)
@@ -304,6 +329,16 @@ pub fn grade(
         };
         rows.push((key, measured, verdict));
     }
+    Ok(Parsed { want, groups, rows, warnings })
+}
+
+/// grades.csv and the overview from checked rows.
+fn grades_of(
+    want: BTreeMap<Key, Expected>,
+    groups: Vec<String>,
+    rows: Vec<(Key, String, Option<Verdict>)>,
+    warnings: Vec<String>,
+) -> Result<Grades, GradeError> {
     // grades.csv: the results columns as the build wrote them, then the marks.
     let mut csv = COLUMNS
         .iter()
@@ -321,7 +356,7 @@ pub fn grade(
         };
         let (difference, word) = match verdict {
             None => (String::new(), "missing"),
-            Some(Verdict::Number { difference, within }) => {
+            Some(Verdict::Number { difference, within, .. }) => {
                 (format!("{difference:.3}"), if *within { "within" } else { "outside" })
             }
             Some(Verdict::Word(ok)) => (String::new(), if *ok { "within" } else { "outside" }),
@@ -362,8 +397,11 @@ pub fn grade(
 
 /// How one measured answer compares.
 #[derive(Clone, Copy, Debug)]
-enum Verdict {
-    Number { difference: f64, within: bool },
+pub(crate) enum Verdict {
+    /// A number: as compared (a size for angles), its difference from the
+    /// prediction, and whether that is within the tolerance.
+    Number { measured: f64, difference: f64, within: bool },
+    /// A word: whether it is the expected one.
     Word(bool),
 }
 

@@ -3,6 +3,7 @@
 
 pub mod answers;
 pub mod build;
+pub mod fit;
 pub mod grade;
 pub mod report;
 pub mod results;

@@ -415,6 +415,28 @@ impl<F: Copy + PartialEq> AngledPlan<F> {
         AngledPlan::in_band(setup, rules, band, angles, choose)
     }
 
+    /// The same guide angles traced again with the piece's index replaced by
+    /// `index`; each ray keeps its letter, band flag and accept ranges.
+    pub fn with_index(&self, index: f64) -> AngledPlan<F>
+    where
+        F: Copy,
+    {
+        let mut copy = self.clone();
+        copy.setup.index = index;
+        copy.rays = self
+            .rays
+            .iter()
+            .map(|r| {
+                let mut a = copy.setup.answer(&self.rules, r.incidence_deg, r.letter.clone(), r.in_band);
+                a.tolerance_deg = r.tolerance_deg;
+                a.refraction_tolerance_deg = r.refraction_tolerance_deg;
+                a.tolerance_mm = r.tolerance_mm;
+                a
+            })
+            .collect();
+        copy
+    }
+
     /// Why the band ends where it ends (low end, high end), in `w`.
     pub fn band_words_in(&self, w: &Words) -> Option<(String, String)> {
         let crit = (1.0 / self.setup.index).asin().to_degrees();

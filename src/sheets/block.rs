@@ -215,6 +215,9 @@ pub struct BlockPlan {
 }
 
 impl SheetView for BlockPlan {
+    fn measured_at_index(&self, index: f64) -> Vec<crate::sheets::Measured> {
+        BlockPlan { plan: self.plan.with_index(index), ..self.clone() }.measured()
+    }
     fn measured(&self) -> Vec<crate::sheets::Measured> {
         let p = &self.plan;
         p.rays

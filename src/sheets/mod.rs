@@ -242,6 +242,11 @@ pub trait SheetView {
     /// Every graded answer a student measures, ray by ray in letter order,
     /// as the table's columns ask for them.
     fn measured(&self) -> Vec<Measured>;
+    /// [`SheetView::measured`] with the piece's index replaced by `index`:
+    /// the same guide settings traced again (the accept ranges and which
+    /// answers are graded stay), for fitting a kit's real index to what a
+    /// class measured. An answer that no longer exists at `index` is left out.
+    fn measured_at_index(&self, index: f64) -> Vec<Measured>;
 }
 
 impl SheetPlan {

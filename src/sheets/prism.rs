@@ -371,6 +371,9 @@ impl PrismPlan {
 }
 
 impl SheetView for PrismPlan {
+    fn measured_at_index(&self, index: f64) -> Vec<crate::sheets::Measured> {
+        PrismPlan { plan: self.plan.with_index(index), ..self.clone() }.measured()
+    }
     fn measured(&self) -> Vec<crate::sheets::Measured> {
         let p = &self.plan;
         let mut out = Vec::new();

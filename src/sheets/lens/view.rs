@@ -136,6 +136,34 @@ impl SheetView for LensPlan {
         self.setup
     }
 
+    fn measured_at_index(&self, index: f64) -> Vec<Measured> {
+        let p = &self.outline.piece;
+        let Ok(lens) = crate::optics::Lens::new(p.front(), p.back(), p.thickness_mm(), p.height_mm(), index)
+        else {
+            return Vec::new();
+        };
+        let outline = crate::optics::Outline::new(lens, self.entry);
+        let mut copy = self.clone();
+        copy.rays = self
+            .rays
+            .iter()
+            .map(|r| {
+                let mut a = super::answer_ray(
+                    &outline,
+                    &self.rules,
+                    self.band.as_ref(),
+                    r.height_mm,
+                    r.letter.clone(),
+                );
+                a.graded = r.graded;
+                a.tolerance_mm = r.tolerance_mm;
+                a
+            })
+            .collect();
+        copy.outline = outline;
+        copy.measured()
+    }
+
     fn measured(&self) -> Vec<Measured> {
         // Where the table's columns measure from, by the columns' own words:
         // the flat and the curved face on curved-face sheets, the exit face and
