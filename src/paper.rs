@@ -44,6 +44,43 @@ impl PaperSize {
     }
 }
 
+/// The calibration page's rulers: 180 mm along the paper's long edge and
+/// 120 mm along its short edge (both fit A5 and up with 10 mm margins).
+pub const LONG_RULER_MM: f64 = 180.0;
+/// See [`LONG_RULER_MM`].
+pub const SHORT_RULER_MM: f64 = 120.0;
+
+/// What a teacher measured on the calibration page their printer printed:
+/// the page is then stretched by 180/long along the paper's long edge and
+/// 120/short along its short edge, whatever the sheet's orientation.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct PrinterCorrection {
+    /// The 180 mm ruler as printed, mm.
+    pub long_ruler_mm: f64,
+    /// The 120 mm ruler as printed, mm.
+    pub short_ruler_mm: f64,
+}
+
+impl PrinterCorrection {
+    /// The stretch along the long and the short edge.
+    pub fn factors(&self) -> (f64, f64) {
+        (LONG_RULER_MM / self.long_ruler_mm, SHORT_RULER_MM / self.short_ruler_mm)
+    }
+
+    /// The stretch along a page's x and y axes: the long edge is x on a
+    /// landscape page, y on a portrait one.
+    pub fn page_factors(&self, width_mm: f64, height_mm: f64) -> (f64, f64) {
+        let (long, short) = self.factors();
+        if width_mm >= height_mm { (long, short) } else { (short, long) }
+    }
+
+    /// The larger of the two corrections, as a fraction (0.012 for 1.2 %).
+    pub fn largest(&self) -> f64 {
+        let (a, b) = self.factors();
+        (a - 1.0).abs().max((b - 1.0).abs())
+    }
+}
+
 /// How the page is turned.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Orientation {

@@ -216,6 +216,13 @@ fn flatten(items: &[Item], off: Vec2, clip: Option<Rect>, out: &mut Flat) {
                     flatten(items, off + *offset, Some(inner), out);
                 }
             }
+            // Layout never stretches a page: a printer's correction is put
+            // round the finished page by the build, and the check is of the
+            // layout. A stretch would be a defect here.
+            Item::Scale { .. } => out.extents.push((
+                Rect { min: Point::new(-1e9, -1e9), max: Point::new(1e9, 1e9) },
+                "a printer's stretch inside the layout".into(),
+            )),
         }
     }
 }

@@ -48,6 +48,17 @@ pub enum Command {
         class: ClassArgs,
     },
     /// Write the shipped sheet text (instructions, table headings, caution) into a folder to edit.
+    /// Write the printer-check page: two rulers to measure, for [printer] in the kit.
+    Calibrate {
+        /// Folder to write calibration.pdf and calibration.svg into.
+        #[arg(long)]
+        out: PathBuf,
+        /// Overwrite files in the output folder that raysheet did not write.
+        #[arg(long)]
+        force: bool,
+        #[command(flatten)]
+        paper: PaperArgs,
+    },
     /// Fit each material's index to what the class measured (a filled-in results.csv).
     Fit {
         /// The kit the build was made from.
@@ -128,6 +139,10 @@ pub struct PaperArgs {
     /// Margin kept clear on every side, mm.
     #[arg(long)]
     pub margin: Option<f64>,
+    /// What the calibration page's rulers measured on this printer, LONG,SHORT in mm
+    /// (such as 178.6,119.3): every page is stretched to print true. Overrides [printer].
+    #[arg(long, value_name = "LONG,SHORT")]
+    pub rulers: Option<String>,
 }
 
 /// Class-set options; each overrides the kit's `[class]` table.

@@ -78,7 +78,9 @@ pub fn wanted(command: &Command) -> Wanted {
             templates: templates(out),
             marking: None,
         },
-        Command::Demo { print_kit: true, .. } | Command::Templates { .. } => Wanted::default(),
+        Command::Demo { print_kit: true, .. } | Command::Templates { .. } | Command::Calibrate { .. } => {
+            Wanted::default()
+        }
         Command::Fit { kit, results, answers, .. } => {
             let answers = answers
                 .clone()
@@ -164,6 +166,15 @@ pub enum Job {
     },
     /// Build sheets, keys and answers into a folder.
     Build(Box<BuildJob>),
+    /// Write the printer-check page.
+    Calibrate {
+        /// The folder.
+        dir: PathBuf,
+        /// Overwrite files there that raysheet did not write.
+        force: bool,
+        /// The paper.
+        paper: PaperSpec,
+    },
     /// Fit each material's index to a results file.
     Fit {
         /// The kit the build was made from.
@@ -213,8 +224,13 @@ impl Job {
     /// the paper flags, the templates, the roster.
     pub fn resolve(command: Command, inputs: Inputs) -> Result<Job, Failure> {
         match command {
+            Command::Calibrate { out, force, paper } => {
+                let paper = resolve_paper(&crate::paper::PaperSpec::default(), &paper)?;
+                Ok(Job::Calibrate { dir: out, force, paper })
+            }
             Command::Check { paper, .. } => {
-                let kit = kit_from(inputs.kit.as_ref())?;
+                let mut kit = kit_from(inputs.kit.as_ref())?;
+                apply_rulers(&mut kit, &paper)?;
                 let paper = resolve_paper(&kit.paper, &paper)?;
                 let class = class_setup(&kit, None, None)?;
                 Ok(Job::Check { kit, paper, class })
@@ -226,7 +242,8 @@ impl Job {
                 Ok(Job::Solve { kit, paper, class: setup, seed_flag: class.seed, json })
             }
             Command::Build { out, paper, class, .. } => {
-                let kit = kit_from(inputs.kit.as_ref())?;
+                let mut kit = kit_from(inputs.kit.as_ref())?;
+                apply_rulers(&mut kit, &paper)?;
                 let dir = out.out.clone().ok_or_else(|| {
                     Failure::Input("build needs --out DIR: the folder to write the sheets into".into())
                 })?;
@@ -407,6 +424,31 @@ pub fn parse_formats(s: &str) -> Result<Formats, Failure> {
 }
 
 /// Applies `--paper`, `--orientation` and `--margin` on top of the kit's paper.
+/// `--rulers LONG,SHORT` in place of the kit's `[printer]`, checked as the kit's is.
+fn apply_rulers(lesson: &mut Lesson, args: &PaperArgs) -> Result<(), Failure> {
+    let Some(r) = &args.rulers else { return Ok(()) };
+    let parsed: Option<(f64, f64)> =
+        r.split_once(',').and_then(|(a, b)| Some((a.trim().parse().ok()?, b.trim().parse().ok()?)));
+    let (long, short) = parsed.ok_or_else(|| {
+        Failure::Input(format!(
+            "--rulers: \"{r}\" is not two lengths; give the long and the short ruler as measured, in mm, such as 178.6,119.3"
+        ))
+    })?;
+    for (v, nominal, which) in
+        [(long, crate::paper::LONG_RULER_MM, "long"), (short, crate::paper::SHORT_RULER_MM, "short")]
+    {
+        if !(v.is_finite() && (0.9 * nominal..=1.1 * nominal).contains(&v)) {
+            return Err(Failure::Input(format!(
+                "--rulers: the {which} ruler ({nominal} mm) cannot have printed {v} mm; give {:.0} to {:.0} mm (more than a few per cent is a \"fit to page\" setting: print at 100 %)",
+                0.9 * nominal,
+                1.1 * nominal
+            )));
+        }
+    }
+    lesson.kit.printer = Some(crate::paper::PrinterCorrection { long_ruler_mm: long, short_ruler_mm: short });
+    Ok(())
+}
+
 pub fn resolve_paper(kit_paper: &PaperSpec, args: &PaperArgs) -> Result<PaperSpec, Failure> {
     let mut spec = kit_paper.clone();
     if let Some(p) = &args.paper {
@@ -632,6 +674,7 @@ mod tests {
             paper: Some("letter".into()),
             orientation: Some("portrait".into()),
             margin: Some(12.0),
+            rulers: None,
         };
         let p = resolve_paper(&base, &args).unwrap();
         assert_eq!(p.size.name, "Letter");

@@ -30,6 +30,8 @@ enum Written {
     Templates,
     /// The marks.
     Grades,
+    /// The printer-check page.
+    Calibration,
 }
 
 /// Files to write into a folder, and what to say once they are written.
@@ -56,6 +58,7 @@ impl Writing {
             Written::Build => "build",
             Written::Templates => "templates",
             Written::Grades => "grades",
+            Written::Calibration => "calibration",
         }
     }
 
@@ -76,6 +79,13 @@ impl Writing {
                     s.push_str(&format!("  and {svgs} SVG files in svg/ folders\n"));
                 }
                 s.push_str("Print at actual size (100 %) and check both scale bars before the lesson.\n");
+            }
+            Written::Calibration => {
+                s.push_str(&format!("Wrote {} file(s) to {dir}:\n", written.len()));
+                for w in written {
+                    s.push_str(&format!("  {}\n", w.display()));
+                }
+                s.push_str("Print it at actual size (100 %), measure both rulers, and give them as [printer] in the kit (or --rulers LONG,SHORT).\n");
             }
             Written::Grades => {
                 s.push_str(&self.overview);
@@ -112,6 +122,24 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
             what: Written::Templates,
             overview: String::new(),
         })),
+        Job::Calibrate { dir, force, paper } => {
+            let words = crate::layout::Templates::shipped().map_err(Failure::Other)?.words;
+            let scene = crate::layout::calibration_scene(&paper, &words);
+            let pdf = crate::render::render_pdf(&scene).map_err(|e| Failure::Other(e.to_string()))?;
+            let svg = crate::render::render_svg_page(&scene.pages[0], &scene.title)
+                .map_err(|e| Failure::Other(e.to_string()))?;
+            Ok(Outcome::Write(Writing {
+                dir,
+                files: vec![
+                    Output { path: "calibration.pdf".into(), bytes: pdf },
+                    Output { path: "calibration.svg".into(), bytes: svg.into_bytes() },
+                ],
+                force,
+                warnings: Vec::new(),
+                what: Written::Calibration,
+                overview: String::new(),
+            }))
+        }
         Job::Fit { kit, paper, results, results_file, answers: answers_text, answers_file, json } => {
             let fits =
                 crate::output::fit::fit(&kit, &paper, &results, &results_file, &answers_text, &answers_file)
@@ -163,6 +191,18 @@ fn check(kit: &Lesson, paper: &PaperSpec, class: Option<ClassSetup>) -> String {
         match &class {
             None => s.push_str(&report::paper_report(plans.iter(), paper)),
             Some(cp) => s.push_str(&report::paper_report(cp.plans.iter().flatten(), paper)),
+        }
+    }
+    if let Some(pc) = kit.printer {
+        let (long, short) = pc.factors();
+        s.push_str(&format!(
+            "\nPrinter correction: every page stretched ×{long:.4} along the long edge, ×{short:.4} along the short edge\n"
+        ));
+        if pc.largest() > 0.025 {
+            s.push_str(&format!(
+                "warning: a correction of {:.1} % is more like a \"fit to page\" print (94–97 %) than a printer's own error; print the calibration page at 100 % and measure again\n",
+                100.0 * pc.largest()
+            ));
         }
     }
     if let Err(e) = refused {

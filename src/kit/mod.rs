@@ -126,6 +126,8 @@ pub struct Kit {
     pub paper: PaperSpec,
     /// The class set.
     pub class: ClassSpec,
+    /// The printer's measured stretch (`[printer]`), if the teacher gave it.
+    pub printer: Option<crate::paper::PrinterCorrection>,
 }
 
 impl Kit {
@@ -348,7 +350,34 @@ impl Validator<'_> {
         }
         let paper = self.paper(raw.paper)?;
         let class = self.class(raw.class)?;
-        Ok(Kit { title, materials, ray_box, pieces, sheets, paper, class })
+        let printer = match raw.printer {
+            None => None,
+            Some(p) => {
+                let p = p.into_inner();
+                let ruler = |v: &Spanned<f64>, field: &str, nominal: f64| {
+                    let x = *v.get_ref();
+                    if x.is_finite() && (0.9 * nominal..=1.1 * nominal).contains(&x) {
+                        Ok(x)
+                    } else {
+                        self.err(
+                            v.span(),
+                            format!("printer.{field}"),
+                            format!("{x} mm is not what a printer makes of the {nominal} mm ruler on the calibration page"),
+                            &format!(
+                                "give the ruler's length as you measured it, {:.0} to {:.0} mm (a printer is off by a few per cent at most; more is a \"fit to page\" setting: print at 100 %)",
+                                0.9 * nominal,
+                                1.1 * nominal
+                            ),
+                        )
+                    }
+                };
+                Some(crate::paper::PrinterCorrection {
+                    long_ruler_mm: ruler(&p.long_ruler_mm, "long_ruler_mm", crate::paper::LONG_RULER_MM)?,
+                    short_ruler_mm: ruler(&p.short_ruler_mm, "short_ruler_mm", crate::paper::SHORT_RULER_MM)?,
+                })
+            }
+        };
+        Ok(Kit { title, materials, ray_box, pieces, sheets, paper, class, printer })
     }
 
     fn ray_box(&self, raw: Option<Spanned<raw::RawRayBox>>) -> Result<RayBox, KitError> {

@@ -18,6 +18,14 @@ pub(super) struct RawKit {
     pub sheets: Vec<Spanned<super::fields::RawSheetTable>>,
     pub paper: Option<Spanned<RawPaper>>,
     pub class: Option<Spanned<RawClass>>,
+    pub printer: Option<Spanned<RawPrinter>>,
+}
+
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawPrinter {
+    pub long_ruler_mm: Spanned<f64>,
+    pub short_ruler_mm: Spanned<f64>,
 }
 
 #[derive(Deserialize, Debug)]

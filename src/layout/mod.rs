@@ -3,11 +3,13 @@
 //! scale checks, the safety caution and, on keys, the answers and the
 //! aberration plot. Never re-traces rays for answers, never writes bytes.
 
+mod calibrate;
 pub mod fit;
 mod summary;
 mod templates;
 pub mod tiles;
 
+pub use calibrate::calibration_scene;
 pub use fit::TextFitError;
 pub use summary::summary_scene;
 pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_template};

@@ -2,11 +2,12 @@
 //! Writing them to disk (atomically, without clobbering) is `main.rs`'s job.
 
 use super::{answers, results, summary};
+use crate::draw::Words;
 use crate::kit::Kit;
 use crate::layout::{self, Templates};
-use crate::paper::PaperSpec;
+use crate::paper::{PaperSpec, PrinterCorrection};
 use crate::render::{RenderError, render_pdf, render_svg_page};
-use crate::scene::Scene;
+use crate::scene::{Item, Scene};
 use crate::sheets::{ClassPlan, SheetPlan};
 
 /// Which kinds of file a build writes besides the answer file (and, for a
@@ -95,6 +96,36 @@ fn scene_files(
     Ok(())
 }
 
+/// Every page of `scene` stretched about its centre by the printer's
+/// correction, with a line over the identity box saying so (in `w`). The
+/// layout is untouched: the stretch is one transform round the finished page.
+pub fn corrected(scene: Scene, printer: Option<PrinterCorrection>, margin_mm: f64, w: &Words) -> Scene {
+    let Some(pc) = printer else { return scene };
+    let (long, short) = pc.factors();
+    let note = w.fill("printer_note", &[("long", &format!("{long:.4}")), ("short", &format!("{short:.4}"))]);
+    let pages = scene
+        .pages
+        .into_iter()
+        .map(|mut page| {
+            let (sx, sy) = pc.page_factors(page.width_mm, page.height_mm);
+            // In the top margin, right-aligned over the identity box: some
+            // 7 mm from the paper's edge with the usual 10 mm margin, where
+            // printers print; the layout's own places are all taken.
+            page.items.push(crate::draw::text(
+                crate::geom::Point::new(page.width_mm - margin_mm, page.height_mm - margin_mm + 1.2),
+                &note,
+                5.0,
+                crate::scene::Weight::Regular,
+                crate::scene::Anchor::End,
+            ));
+            let about = crate::geom::Point::new(page.width_mm / 2.0, page.height_mm / 2.0);
+            page.items = vec![Item::Scale { sx, sy, about, items: std::mem::take(&mut page.items) }];
+            page
+        })
+        .collect();
+    Scene { pages, ..scene }
+}
+
 /// Refuses, before any layout, a set where one sheet would be tiled over more
 /// than [`MAX_SHEET_PAGES`] pages, or whose sheets and keys would need more
 /// than [`MAX_PAGES`] pages (a setup tiled over thousands of pages, say).
@@ -161,7 +192,9 @@ pub fn build_plans_with(
         return Err(BuildError::Empty);
     }
     preflight(kit, plans.iter(), paper)?;
-    let set = layout::layout(&kit.title, plans, paper, templates)?;
+    let mut set = layout::layout(&kit.title, plans, paper, templates)?;
+    set.sheets = corrected(set.sheets, kit.printer, paper.margin_mm, &templates.words);
+    set.keys = corrected(set.keys, kit.printer, paper.margin_mm, &templates.words);
     if set.sheets.pages.len() + set.keys.pages.len() > MAX_PAGES {
         return Err(BuildError::TooLarge(format!(
             "these sheets would need {} pages, more than the {MAX_PAGES} raysheet makes in one build; split the kit",
@@ -213,7 +246,9 @@ pub fn build_class_with(
     let mut all_keys = Scene { title: format!("{}: answer keys, all groups", kit.title), pages: Vec::new() };
     let mut out = Vec::new();
     for (group, plans) in class.groups.iter().zip(&class.plans) {
-        let set = layout::layout(&kit.title, plans, paper, templates)?;
+        let mut set = layout::layout(&kit.title, plans, paper, templates)?;
+        set.sheets = corrected(set.sheets, kit.printer, paper.margin_mm, &templates.words);
+        set.keys = corrected(set.keys, kit.printer, paper.margin_mm, &templates.words);
         let prefix = format!("groups/{}/", group.folder);
         let sheets = Scene {
             title: format!("{}: {}: student sheets", kit.title, group.name),
@@ -234,7 +269,12 @@ pub fn build_class_with(
     if formats.pdf {
         out.push(Output { path: "sheets.pdf".into(), bytes: render_pdf(&all_sheets)? });
         out.push(Output { path: "keys.pdf".into(), bytes: render_pdf(&all_keys)? });
-        let summary = layout::summary_scene(&kit.title, class, paper, templates);
+        let summary = corrected(
+            layout::summary_scene(&kit.title, class, paper, templates),
+            kit.printer,
+            paper.margin_mm,
+            &templates.words,
+        );
         out.push(Output { path: "summary.pdf".into(), bytes: render_pdf(&summary)? });
     }
     out.push(Output { path: "summary.csv".into(), bytes: summary::summary_csv(class).into_bytes() });

@@ -200,6 +200,13 @@ fn walk_items(items: &[Item], num: &mut impl FnMut(&'static str, f64)) {
                 num("group offset", offset.y);
                 walk_items(items, num);
             }
+            Item::Scale { sx, sy, about, items } => {
+                num("scale", *sx);
+                num("scale", *sy);
+                num("scale centre", about.x);
+                num("scale centre", about.y);
+                walk_items(items, num);
+            }
         }
     }
 }

@@ -64,6 +64,11 @@ struct Flip {
 }
 
 impl Flip {
+    /// The page height, mm.
+    fn height(self) -> f64 {
+        self.height_mm
+    }
+
     /// `x,y` of a page point in SVG user units.
     fn pt(self, p: Point) -> String {
         format!("{},{}", num(p.x), num(self.y(p.y)))
@@ -109,7 +114,33 @@ impl Ctx {
             }
             Item::Box { rect, fill, stroke } => boxed(f, rect, *fill, stroke.as_ref()),
             Item::Group { clip, offset, items } => self.group(clip, *offset, items)?,
+            Item::Scale { sx, sy, about, items } => self.scale(*sx, *sy, *about, items)?,
         })
+    }
+
+    /// `<g transform="matrix(…)">`: x′ = a.x + sx(x − a.x), y′ = a.y + sy(y − a.y)
+    /// in the page frame; in SVG's flipped y (y_svg = H − y) that is
+    /// y_svg′ = (H − a.y)(1 − sy) + sy·y_svg. One transform, two factors: the
+    /// stretch is never made uniform.
+    fn scale(&mut self, sx: f64, sy: f64, about: Point, items: &[Item]) -> Result<Element, RenderError> {
+        let mut children = Vec::new();
+        self.items(items, &mut children)?;
+        let h = self.flip.height();
+        let mut g = Element::new(tag::Group);
+        g.assign(
+            "transform",
+            format!(
+                "matrix({} 0 0 {} {} {})",
+                num6(sx),
+                num6(sy),
+                num6(about.x * (1.0 - sx)),
+                num6((h - about.y) * (1.0 - sy))
+            ),
+        );
+        for c in children {
+            g.append(c);
+        }
+        Ok(g)
     }
 
     /// `<g clip-path>` around `<g transform="translate">`: the clip is given in
@@ -370,8 +401,19 @@ fn hex_gray(gray: Gray) -> String {
 }
 
 /// A number with at most three decimals, trailing zeros trimmed, `-0` as `0`.
+/// A factor or offset of a printer's correction, to 1e-6 (a stretch of
+/// 1.0101 must not become 1.010).
+fn num6(v: f64) -> String {
+    trim(format!("{v:.6}"))
+}
+
 fn num(v: f64) -> String {
-    let mut s = format!("{v:.3}");
+    trim(format!("{v:.3}"))
+}
+
+/// Trailing zeros and a trailing point dropped; `-0` written as `0`.
+fn trim(s: String) -> String {
+    let mut s = s;
     if s.contains('.') {
         while s.ends_with('0') {
             s.pop();

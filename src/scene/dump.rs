@@ -90,6 +90,13 @@ fn item(out: &mut String, it: &Item, indent: usize) {
             fill.map(|g| format!(" fill g{g:.2}")).unwrap_or_default(),
             s.map(|s| format!(" {}", stroke(&s))).unwrap_or_default()
         ),
+        Item::Scale { sx, sy, about, items } => {
+            let _ = writeln!(out, "{pad}scale {sx:.6} {sy:.6} about ({:.2},{:.2})", about.x, about.y);
+            for child in items {
+                item(out, child, indent + 2);
+            }
+            Ok(())
+        }
         Item::Group { clip, offset, items } => {
             let _ = writeln!(
                 out,

@@ -255,6 +255,18 @@ pub enum Item {
         /// The children.
         items: Vec<Item>,
     },
+    /// Items stretched by `sx` along x and `sy` along y about the point
+    /// `about`: a printer's measured correction, applied to a whole page.
+    Scale {
+        /// Stretch along the page's x axis.
+        sx: f64,
+        /// Stretch along the page's y axis.
+        sy: f64,
+        /// The point that stays put (the page's centre).
+        about: Point,
+        /// The children.
+        items: Vec<Item>,
+    },
 }
 
 /// A piece of an [`Item::Outline`].

@@ -978,7 +978,7 @@ pub(super) mod tests {
                     let side = dir.perp() * (width_mm / 2.0);
                     p.block_path(&[*tip, base + side, base - side, *tip]);
                 }
-                Item::Text { .. } | Item::Box { .. } | Item::Group { .. } => {}
+                Item::Text { .. } | Item::Box { .. } | Item::Group { .. } | Item::Scale { .. } => {}
             }
         }
         p

@@ -78,6 +78,22 @@ impl Painter<'_> {
             }
             Item::Box { rect, fill, stroke } => self.boxed(rect, *fill, stroke.as_ref()),
             Item::Group { clip, offset, items } => self.group(clip, *offset, items)?,
+            Item::Scale { sx, sy, about, items } => {
+                // x′ = a.x + sx(x − a.x), y′ = a.y + sy(y − a.y), in millimetres
+                // (the page's own cm has already turned mm into points).
+                self.c.save_state();
+                self.c.transform([
+                    f(*sx),
+                    0.0,
+                    0.0,
+                    f(*sy),
+                    f(about.x * (1.0 - sx)),
+                    f(about.y * (1.0 - sy)),
+                ]);
+                let drawn = self.items(items);
+                self.c.restore_state();
+                drawn?
+            }
         }
         Ok(())
     }

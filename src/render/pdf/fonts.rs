@@ -110,7 +110,7 @@ fn collect_items(
                     }
                 }
             }
-            Item::Group { items, .. } => collect_items(items, chars)?,
+            Item::Group { items, .. } | Item::Scale { items, .. } => collect_items(items, chars)?,
             Item::Line { .. }
             | Item::Polyline { .. }
             | Item::Arc { .. }
