@@ -68,7 +68,9 @@ pub fn wanted(command: &Command) -> Wanted {
         Command::Build { kit, out, class, .. } => {
             Wanted { kit: Some(kit.clone()), roster: class.roster.clone(), templates: templates(out) }
         }
-        Command::Demo { print_kit: true, .. } | Command::Templates { .. } => Wanted::default(),
+        Command::Demo { print_kit: true, .. } | Command::Templates { .. } | Command::Materials => {
+            Wanted::default()
+        }
         Command::Demo { out, class, .. } => {
             Wanted { kit: None, roster: class.roster.clone(), templates: templates(out) }
         }
@@ -141,6 +143,8 @@ pub enum Job {
     },
     /// Print the demo kit's TOML.
     PrintDemoKit,
+    /// Print the built-in materials.
+    ListMaterials,
 }
 
 impl Job {
@@ -170,6 +174,7 @@ impl Job {
             }
             Command::Templates { out, force } => Ok(Job::WriteTemplates { dir: out, force }),
             Command::Demo { print_kit: true, .. } => Ok(Job::PrintDemoKit),
+            Command::Materials => Ok(Job::ListMaterials),
             Command::Demo { out, class, .. } => {
                 let kit = Lesson::from_toml(demo::DEMO_KIT, demo::DEMO_NAME)
                     .map_err(|e| Failure::Other(format!("the embedded demo kit is invalid: {e}")))?;

@@ -100,6 +100,7 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
             what: Written::Templates,
         })),
         Job::PrintDemoKit => Ok(Outcome::Print(demo::DEMO_KIT.to_string())),
+        Job::ListMaterials => Ok(Outcome::Print(report::materials_report())),
     }
 }
 

@@ -165,6 +165,7 @@ impl Prepared for BlockPrepared<'_> {
             piece_label: kp.label.clone(),
             enter: Enter::Side,
             index: self.block.index,
+            wavelength_nm: self.kit.ray_box.wavelength_nm,
             group: None,
             variant: None,
             warnings,

@@ -339,6 +339,7 @@ impl Prepared for PrismPrepared<'_> {
             piece_label: kp.label.clone(),
             enter: self.spec.enter,
             index: self.prism.index,
+            wavelength_nm: self.kit.ray_box.wavelength_nm,
             group: None,
             variant: None,
             warnings,
