@@ -948,3 +948,270 @@ fn accented_and_greek_labels_are_accepted() {
         edit(BASE, "id = \"hd33\"", "id = \"hd33\"\nlabel = \"Halbscheibe, Ø 66 mm, n≈1.50 (θ < 42°)\"");
     assert!(Lesson::from_toml(&text, FILE).is_ok());
 }
+
+// ------------------------------------------- materials with dispersion (issue 10)
+
+/// BASE with its material written as `material` (the `index = 1.50` line replaced).
+fn with_material(material: &str) -> String {
+    edit(BASE, "index = 1.50\n", &format!("{material}\n"))
+}
+
+/// BASE with a `[ray_box]` table holding `lines`.
+fn with_ray_box(base: &str, lines: &str) -> String {
+    format!("{base}\n[ray_box]\n{lines}\n")
+}
+
+const SELLMEIER_HINT: &[&str] = &["same length", "no pole", "above 1", "c_um2 = ["];
+
+#[test]
+fn sellmeier_pole_in_the_visible_points_at_its_c() {
+    // c = 0.25 µm² is a pole at λ = 0.5 µm (λ² = c), inside 380–780 nm.
+    let text = with_material("sellmeier = { b = [1.0, 0.3], c_um2 = [0.01, 0.25] }");
+    let (line, col) = at(&text, "0.25");
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "materials.pmma.sellmeier.c_um2[2]", hint: SELLMEIER_HINT },
+    );
+    assert!(shown.contains("pole") && shown.contains("500.0 nm"), "{shown}");
+}
+
+#[test]
+fn sellmeier_lists_of_different_lengths_point_at_c() {
+    let text = with_material("sellmeier = { b = [1.0, 0.3], c_um2 = [0.01] }");
+    let (line, col) = at(&text, "[0.01]");
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "materials.pmma.sellmeier.c_um2", hint: SELLMEIER_HINT },
+    );
+    assert!(shown.contains("b has 2 terms but c_um2 has 1"), "{shown}");
+}
+
+#[test]
+fn sellmeier_without_terms_is_refused() {
+    let text = with_material("sellmeier = { b = [], c_um2 = [] }");
+    let (line, col) = at(&text, "[]");
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "materials.pmma.sellmeier.b", hint: SELLMEIER_HINT },
+    );
+    assert!(shown.contains("no terms"), "{shown}");
+}
+
+#[test]
+fn sellmeier_non_finite_coefficient_points_at_it() {
+    let text = with_material("sellmeier = { b = [1.0, nan], c_um2 = [0.01, 0.02] }");
+    let (line, col) = at(&text, "nan");
+    check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "materials.pmma.sellmeier.b[2]", hint: SELLMEIER_HINT },
+    );
+    let text = with_material("sellmeier = { b = [1.0], c_um2 = [inf] }");
+    let (line, col) = at(&text, "inf");
+    check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "materials.pmma.sellmeier.c_um2[1]", hint: SELLMEIER_HINT },
+    );
+}
+
+#[test]
+fn sellmeier_giving_n_not_above_one_is_refused() {
+    // b = −0.5, c = 0.01: n² = 1 − 0.5λ²/(λ² − 0.01) < 1 everywhere (closed form).
+    let text = with_material("sellmeier = { b = [-0.5], c_um2 = [0.01] }");
+    let (line, col) = at(&text, "{ b =");
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "materials.pmma.sellmeier", hint: SELLMEIER_HINT },
+    );
+    assert!(shown.contains("n must be above 1"), "{shown}");
+}
+
+#[test]
+fn sellmeier_unknown_field_names_the_formula_table() {
+    let text = with_material("sellmeier = { b = [1.0], c = [0.01] }");
+    let (line, col) = at(&text, "c = [");
+    check(
+        &error(&text),
+        Expect {
+            line,
+            col: Some(col),
+            field: "materials.pmma.sellmeier.c",
+            hint: &["did you mean `b`?", "accepted here: b, c_um2"],
+        },
+    );
+}
+
+#[test]
+fn material_with_two_of_index_sellmeier_and_catalog_is_refused() {
+    let text = with_material("index = 1.50\ncatalog = \"pmma-beadie-2015\"");
+    let (line, col) = at(&text, "\"pmma-beadie-2015\"");
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "materials.pmma.catalog", hint: &["exactly one of index"] },
+    );
+    assert!(shown.contains("both `index` and `catalog`"), "{shown}");
+}
+
+#[test]
+fn unknown_catalog_material_suggests_the_nearest() {
+    let text = with_material("catalog = \"pmma-beadie-2014\"");
+    let (line, col) = at(&text, "\"pmma-beadie-2014\"");
+    check(
+        &error(&text),
+        Expect {
+            line,
+            col: Some(col),
+            field: "materials.pmma.catalog",
+            hint: &["did you mean `pmma-beadie-2015`?", "pc-sultanova-2009", "raysheet materials"],
+        },
+    );
+}
+
+#[test]
+fn material_with_no_index_names_the_three_ways() {
+    let text = with_material("label = \"cast acrylic\"");
+    let (line, _) = at(&text, "[materials.pmma]");
+    check(
+        &error(&text),
+        Expect {
+            line,
+            col: Some(1),
+            field: "materials.pmma.index",
+            hint: &["add `index = ", "sellmeier = {", "catalog = "],
+        },
+    );
+}
+
+#[test]
+fn ray_box_wavelength_outside_the_visible_is_refused() {
+    for bad in ["900", "379.9", "nan", "-587.6"] {
+        let text = with_ray_box(BASE, &format!("wavelength_nm = {bad}"));
+        let (line, col) = at(&text, &format!("= {bad}"));
+        check(
+            &error(&text),
+            Expect { line, col: Some(col + 2), field: "ray_box.wavelength_nm", hint: &["from 380 to 780"] },
+        );
+    }
+    assert!(Lesson::from_toml(&with_ray_box(BASE, "wavelength_nm = 780"), FILE).is_ok());
+}
+
+#[test]
+fn ray_box_colours_are_checked_one_by_one() {
+    let colours = |list: &str| with_ray_box(BASE, &format!("colours = [{list}]"));
+    // A name twice (whatever its capitals).
+    let text = colours("{ name = \"red\", wavelength_nm = 656.3 }, { name = \"Red\", wavelength_nm = 640 }");
+    let (line, col) = at(&text, "\"Red\"");
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "ray_box.colours[2].name", hint: &["its own name"] },
+    );
+    assert!(shown.contains("given twice"), "{shown}");
+    // A wavelength outside the visible.
+    let text = colours("{ name = \"red\", wavelength_nm = 656.3 }, { name = \"uv\", wavelength_nm = 350 }");
+    let (line, col) = at(&text, "350");
+    check(
+        &error(&text),
+        Expect {
+            line,
+            col: Some(col),
+            field: "ray_box.colours[2].wavelength_nm",
+            hint: &["from 380 to 780"],
+        },
+    );
+    // A name the font cannot print (U+6F22, see below).
+    let text = colours("{ name = \"漢\", wavelength_nm = 500 }");
+    let (line, col) = at(&text, "\"漢\"");
+    check(&error(&text), Expect { line, col: Some(col), field: "ray_box.colours[1].name", hint: &["Latin"] });
+    // An unknown field in a colour.
+    let text = colours("{ name = \"red\", wavelength = 656.3 }");
+    let (line, col) = at(&text, "wavelength =");
+    check(
+        &error(&text),
+        Expect {
+            line,
+            col: Some(col),
+            field: "ray_box.colours.wavelength",
+            hint: &["did you mean `wavelength_nm`?", "accepted here: name, wavelength_nm"],
+        },
+    );
+    let ok = colours("{ name = \"red\", wavelength_nm = 656.3 }, { name = \"blue\", wavelength_nm = 486.1 }");
+    let lesson = Lesson::from_toml(&ok, FILE).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(lesson.ray_box.colours.len(), 2);
+    assert_eq!(lesson.ray_box.colours[1].name, "blue");
+}
+
+/// BASE's curved-face sheet with `all_colours = true`, on `material`, with `ray_box` lines.
+fn all_colours_kit(material: &str, ray_box: &str) -> String {
+    let text = with_material(material);
+    let text = edit(&text, "heights_mm = [9, -9]\n", "heights_mm = [9, -9]\nall_colours = true\n");
+    with_ray_box(&text, ray_box)
+}
+
+const RGB: &str =
+    "colours = [ { name = \"red\", wavelength_nm = 656.3 }, { name = \"blue\", wavelength_nm = 486.1 } ]";
+
+#[test]
+fn all_colours_on_a_material_without_dispersion_is_refused() {
+    let text = all_colours_kit("index = 1.50", RGB);
+    let (line, col) = at(&text, "true");
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "sheets[1].all_colours", hint: &["sellmeier", "catalog"] },
+    );
+    assert!(shown.contains("no dispersion"), "{shown}");
+}
+
+#[test]
+fn all_colours_needs_two_colours_and_is_not_made_yet() {
+    let text = all_colours_kit("catalog = \"pmma-beadie-2015\"", "rays = 3");
+    let (line, col) = at(&text, "true");
+    check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "sheets[1].all_colours", hint: &["colours = ["] },
+    );
+    // With a dispersing material and colours: refused as not made yet, not ignored.
+    let text = all_colours_kit("catalog = \"pmma-beadie-2015\"", RGB);
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "sheets[1].all_colours", hint: &["remove all_colours"] },
+    );
+    assert!(shown.contains("not made yet"), "{shown}");
+    // false is accepted on any kind, and a wrong type is located.
+    let off = edit(&text, "all_colours = true", "all_colours = false");
+    assert!(Lesson::from_toml(&off, FILE).is_ok());
+    let bad = edit(&text, "all_colours = true", "all_colours = \"yes\"");
+    let (line, col) = at(&bad, "\"yes\"");
+    check(
+        &error(&bad),
+        Expect { line, col: Some(col), field: "sheets[1].all_colours", hint: &["true or false"] },
+    );
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(64))]
+
+    /// Any Sellmeier coefficients: a located error, or a material whose index
+    /// is above 1 and at most 4 everywhere in 380–780 nm (checked here at every
+    /// half nanometre, finer than the 1 nm scan of the check itself).
+    #[test]
+    fn random_sellmeier_coefficients_are_refused_or_usable(
+        terms in prop::collection::vec((-2.0..4.0f64, 0.0..1.0f64), 1..4),
+    ) {
+        let b: Vec<String> = terms.iter().map(|(b, _)| format!("{b:?}")).collect();
+        let c: Vec<String> = terms.iter().map(|(_, c)| format!("{c:?}")).collect();
+        let text = with_material(&format!("sellmeier = {{ b = [{}], c_um2 = [{}] }}", b.join(", "), c.join(", ")));
+        match Lesson::from_toml(&text, FILE) {
+            Err(e) => {
+                prop_assert!(e.field.starts_with("materials.pmma.sellmeier"), "{e}");
+                prop_assert!(e.line == 4, "{e}");
+            }
+            Ok(kit) => {
+                let m = &kit.materials["pmma"];
+                for k in 0..=800 {
+                    let n = m.index_at(380.0 + k as f64 * 0.5);
+                    prop_assert!(n > 1.0 && n <= 4.0, "n = {n} at {} nm", 380.0 + k as f64 * 0.5);
+                }
+                run_all(&text);
+            }
+        }
+    }
+}

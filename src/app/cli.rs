@@ -96,6 +96,8 @@ pub enum Command {
         #[arg(long)]
         force: bool,
     },
+    /// List the built-in materials (`catalog = "…"` in a kit) with their sources and n at 486.1, 587.6 and 656.3 nm.
+    Materials,
     /// Build the embedded demo kit (no kit file needed).
     Demo {
         #[command(flatten)]

@@ -78,9 +78,10 @@ pub fn wanted(command: &Command) -> Wanted {
             templates: templates(out),
             marking: None,
         },
-        Command::Demo { print_kit: true, .. } | Command::Templates { .. } | Command::Calibrate { .. } => {
-            Wanted::default()
-        }
+        Command::Demo { print_kit: true, .. }
+        | Command::Templates { .. }
+        | Command::Calibrate { .. }
+        | Command::Materials => Wanted::default(),
         Command::Fit { kit, results, answers, .. } => {
             let answers = answers
                 .clone()
@@ -216,6 +217,8 @@ pub enum Job {
     },
     /// Print the demo kit's TOML.
     PrintDemoKit,
+    /// Print the built-in materials.
+    ListMaterials,
 }
 
 impl Job {
@@ -269,6 +272,7 @@ impl Job {
                 Ok(Job::Grade { results, results_file, answers, answers_file, dir: out, force })
             }
             Command::Demo { print_kit: true, .. } => Ok(Job::PrintDemoKit),
+            Command::Materials => Ok(Job::ListMaterials),
             Command::Demo { out, class, .. } => {
                 let kit = Lesson::from_toml(demo::DEMO_KIT, demo::DEMO_NAME)
                     .map_err(|e| Failure::Other(format!("the embedded demo kit is invalid: {e}")))?;

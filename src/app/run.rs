@@ -169,6 +169,7 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
             }))
         }
         Job::PrintDemoKit => Ok(Outcome::Print(demo::DEMO_KIT.to_string())),
+        Job::ListMaterials => Ok(Outcome::Print(report::materials_report())),
     }
 }
 

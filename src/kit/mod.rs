@@ -17,14 +17,16 @@ pub use error::KitError;
 use error::Locator;
 pub use fields::{COMMON_SHEET_FIELDS, Located, Place, SheetEntry};
 pub use group_name::{MAX_NAME_CHARS, group_name_problem, normal_group_name};
-use raw::{RawKit, RawPiece, TABLE_FIELDS};
+use raw::{NESTED_TABLES, RawKit, RawPiece, TABLE_FIELDS};
 use toml::Spanned;
 
+use crate::optics::material::{Dispersion, Material, MaterialError, VISIBLE_NM, published_words};
 use crate::optics::{Block, Face, Lens, Piece, Prism};
 use crate::paper::{Orientation, PaperSize, PaperSpec};
 
-/// The ray box: parallel rays for focal-length sheets.
-#[derive(Clone, Copy, Debug, PartialEq)]
+/// The ray box: parallel rays for focal-length sheets, the wavelength that
+/// fixes every piece's index, and the colours its filters give.
+#[derive(Clone, Debug, PartialEq)]
 pub struct RayBox {
     /// Number of parallel rays (1–9).
     pub rays: u32,
@@ -32,15 +34,40 @@ pub struct RayBox {
     pub spacing_mm: f64,
     /// Width of one ray on paper, mm.
     pub ray_width_mm: f64,
+    /// The wavelength of the ray box's white or single-colour ray, nm: every
+    /// piece's index is its material's index here.
+    pub wavelength_nm: f64,
+    /// The colours the ray box's filters give, in kit order (names unique,
+    /// printable; wavelengths in [`VISIBLE_NM`]).
+    pub colours: Vec<Colour>,
 }
 
 impl Default for RayBox {
     /// Five rays 8 mm apart, 2 mm wide: the middle of what classroom ray boxes
-    /// give (DESIGN.md: one to five rays, 1–3 mm wide, 5–15 mm apart, *memory*).
+    /// give (DESIGN.md: one to five rays, 1–3 mm wide, 5–15 mm apart, *memory*);
+    /// at the d line, 587.6 nm, the usual reference wavelength (DESIGN.md); no colours.
     fn default() -> RayBox {
-        RayBox { rays: 5, spacing_mm: 8.0, ray_width_mm: 2.0 }
+        RayBox {
+            rays: 5,
+            spacing_mm: 8.0,
+            ray_width_mm: 2.0,
+            wavelength_nm: crate::optics::material::D_LINE_NM,
+            colours: Vec::new(),
+        }
     }
 }
+
+/// One colour of the ray box: a filter's name (printed) and its wavelength.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Colour {
+    /// The name, as written in the kit (printed on keys).
+    pub name: String,
+    /// Its wavelength, nm.
+    pub wavelength_nm: f64,
+}
+
+/// Most colours a ray box may list: the seven of a rainbow (our bound).
+pub const MAX_COLOURS: usize = 7;
 
 /// A piece of the kit with its name and material resolved.
 #[derive(Clone, Debug, PartialEq)]
@@ -89,10 +116,8 @@ impl Default for ClassSpec {
 /// Largest number of groups in a class set (a sane bound on output size).
 pub const MAX_GROUPS: usize = 60;
 
-/// Largest index of refraction a kit may give: classroom materials lie
-/// between acrylic (1.49) and diamond (2.42); above 4 nothing is transparent
-/// to a ray box's light (our bound, common practice, no source).
-pub const MAX_INDEX: f64 = 4.0;
+/// Largest index of refraction a kit may give (the optics' own bound).
+pub use crate::optics::MAX_INDEX;
 
 /// Largest ray spacing, mm: ray boxes space their slits some 5–15 mm apart
 /// (DESIGN.md, *memory*); 40 mm leaves room for a comb with slits blocked.
@@ -106,6 +131,13 @@ pub const MAX_RAY_WIDTH_MM: f64 = 10.0;
 /// checked here first so the error points at the field).
 pub use crate::optics::MAX_PIECE_MM;
 
+const SELLMEIER_EXAMPLE: &str =
+    "sellmeier = { b = [0.99654, 0.18964, 0.00411], c_um2 = [0.00787, 0.02191, 3.85727] }";
+
+fn catalog_example() -> String {
+    format!("catalog = \"{}\" (`raysheet materials` lists the built-in ones)", published_words()[0])
+}
+
 const PIECE_WHY: &str = "classroom pieces fit on a sheet of paper";
 
 /// A validated kit.
@@ -113,8 +145,8 @@ const PIECE_WHY: &str = "classroom pieces fit on a sheet of paper";
 pub struct Kit {
     /// Title printed on every sheet.
     pub title: String,
-    /// Index of refraction by material name.
-    pub materials: BTreeMap<String, f64>,
+    /// Materials by name: each gives an index at any wavelength of [`VISIBLE_NM`].
+    pub materials: BTreeMap<String, Material>,
     /// The ray box.
     pub ray_box: RayBox,
     /// The pieces, in kit order.
@@ -150,6 +182,12 @@ fn de_error(loc: &Locator<'_>, e: &toml::de::Error) -> KitError {
         // `ray_box = { … }` gives just `ray_box`, itself a table name.
         let inline = !path.is_empty() && TABLE_FIELDS.iter().any(|(t, _)| !t.is_empty() && *t == path);
         let table = if path.contains('.') || path.contains('[') || inline { table } else { "" };
+        // A known inline table inside a table (`sellmeier = { … }` under a
+        // material, `colours = [{ … }]` under the ray box) is named by its own
+        // key, unless that key is itself the unknown field.
+        let last = path.rsplit('.').next().unwrap_or("");
+        let nested = path.contains('.') && last != name && NESTED_TABLES.contains(&last) && !inline;
+        let (table, inline) = if nested { (last, true) } else { (table, inline) };
         let known = TABLE_FIELDS.iter().find(|(t, _)| *t == table).map(|(_, f)| *f).unwrap_or(&[]);
         let best = error::did_you_mean(name, known);
         let field = if inline { format!("{path}.{name}") } else { path };
@@ -317,23 +355,12 @@ impl Validator<'_> {
         let title = raw.title.map(|t| t.into_inner()).unwrap_or_else(|| "Ray-optics practical".to_string());
         let mut materials = BTreeMap::new();
         for (name, m) in &raw.materials {
-            let n = *m.get_ref().index.get_ref();
-            if !(n.is_finite() && n > 1.0 && n <= MAX_INDEX) {
-                return self.err(
-                    m.get_ref().index.span(),
-                    format!("materials.{name}.index"),
-                    format!("index {n} is not a usable index of refraction"),
-                    &format!(
-                        "give a finite number above 1 and at most {MAX_INDEX}, at the ray box's wavelength (acrylic is about 1.49, glass 1.5 to 1.9, diamond 2.42)"
-                    ),
-                );
-            }
-            materials.insert(name.clone(), n);
+            materials.insert(name.clone(), self.material(name, m)?);
         }
         let ray_box = self.ray_box(raw.ray_box)?;
         let mut pieces: Vec<KitPiece> = Vec::new();
         for (i, p) in raw.pieces.iter().enumerate() {
-            let kp = self.piece(i, p, &materials)?;
+            let kp = self.piece(i, p, &materials, ray_box.wavelength_nm)?;
             if let Some(prev) = pieces.iter().find(|q| q.id == kp.id) {
                 return self.err(
                     p.get_ref().id.span(),
@@ -380,6 +407,155 @@ impl Validator<'_> {
         Ok(Kit { title, materials, ray_box, pieces, sheets, paper, class, printer })
     }
 
+    /// One `[materials.NAME]` table: exactly one of `index`, `sellmeier` and
+    /// `catalog`, checked over the visible band.
+    fn material(&self, name: &str, m: &Spanned<raw::RawMaterial>) -> Result<Material, KitError> {
+        let raw = m.get_ref();
+        let f = |field: &str| format!("materials.{name}.{field}");
+        let given: Vec<(&str, std::ops::Range<usize>)> = [
+            ("index", raw.index.as_ref().map(|v| v.span())),
+            ("sellmeier", raw.sellmeier.as_ref().map(|v| v.span())),
+            ("catalog", raw.catalog.as_ref().map(|v| v.span())),
+        ]
+        .into_iter()
+        .filter_map(|(k, span)| span.map(|s| (k, s)))
+        .collect();
+        match given.as_slice() {
+            [] => {
+                return self.err(
+                    m.span(),
+                    f("index"),
+                    format!("material `{name}` has no index of refraction"),
+                    &format!("add `index = 1.49` (at the ray box's wavelength), or a dispersion formula: {SELLMEIER_EXAMPLE} or {}", catalog_example()),
+                );
+            }
+            [_] => {}
+            [(first, _), (second, span), ..] => {
+                return self.err(
+                    span.clone(),
+                    f(second),
+                    format!("material `{name}` gives both `{first}` and `{second}`"),
+                    "give exactly one of index (no dispersion), sellmeier or catalog",
+                );
+            }
+        }
+        if let Some(v) = &raw.index {
+            return Material::constant(*v.get_ref()).or_else(|_| {
+                let n = *v.get_ref();
+                self.err(
+                    v.span(),
+                    f("index"),
+                    format!("index {n} is not a usable index of refraction"),
+                    &format!(
+                        "give a finite number above 1 and at most {MAX_INDEX}, at the ray box's wavelength (acrylic is about 1.49, glass 1.5 to 1.9, diamond 2.42)"
+                    ),
+                )
+            });
+        }
+        if let Some(c) = &raw.catalog {
+            let word = c.get_ref();
+            return Material::published(word).ok_or_else(|| {
+                let words = published_words();
+                let best = error::did_you_mean(word, &words);
+                self.loc.error(
+                    c.span().start,
+                    f("catalog"),
+                    format!("\"{word}\" is not a built-in material"),
+                    format!(
+                        "{best}give one of {} (`raysheet materials` lists them with their sources)",
+                        words.iter().map(|w| format!("\"{w}\"")).collect::<Vec<_>>().join(", ")
+                    ),
+                )
+            });
+        }
+        let s = raw.sellmeier.as_ref().expect("one of the three is given");
+        let table = s.get_ref();
+        let values =
+            |v: &Spanned<Vec<Spanned<f64>>>| v.get_ref().iter().map(|x| *x.get_ref()).collect::<Vec<f64>>();
+        let dispersion =
+            Dispersion::Sellmeier { b: values(&table.b).into(), c_um2: values(&table.c_um2).into() };
+        Material::new(dispersion).or_else(|e| {
+            let element = |list: &Spanned<Vec<Spanned<f64>>>, name: &str, term: usize| {
+                let span = list.get_ref().get(term).map(|x| x.span()).unwrap_or(list.span());
+                (span, f(&format!("sellmeier.{name}[{}]", term + 1)))
+            };
+            let (span, field) = match &e {
+                MaterialError::Empty => (table.b.span(), f("sellmeier.b")),
+                MaterialError::Lengths { .. } => (table.c_um2.span(), f("sellmeier.c_um2")),
+                MaterialError::NotFinite { list: "b", term } => element(&table.b, "b", *term),
+                MaterialError::NotFinite { term, .. }
+                | MaterialError::NegativeC { term }
+                | MaterialError::Pole { term, .. } => element(&table.c_um2, "c_um2", *term),
+                MaterialError::Index(_) | MaterialError::NotAboveOne { .. } | MaterialError::TooHigh { .. } => {
+                    (s.span(), f("sellmeier"))
+                }
+            };
+            let (lo, hi) = VISIBLE_NM;
+            self.err(
+                span,
+                field,
+                e.problem(),
+                &format!(
+                    "give lists b and c_um2 of the same length (one term each, at least one), finite numbers, every c_um2 0 or more with no pole (λ = √c) in {lo:.0}–{hi:.0} nm, so that n is above 1 and at most {MAX_INDEX} there; such as {SELLMEIER_EXAMPLE} (PMMA, Szczurowski 2013)"
+                ),
+            )
+        })
+    }
+
+    fn wavelength(&self, v: &Spanned<f64>, field: String) -> Result<f64, KitError> {
+        let x = *v.get_ref();
+        let (lo, hi) = VISIBLE_NM;
+        if x.is_finite() && (lo..=hi).contains(&x) {
+            Ok(x)
+        } else {
+            self.err(
+                v.span(),
+                field,
+                format!("{x} nm is not a wavelength of visible light"),
+                &format!(
+                    "give a wavelength in nm from {lo:.0} to {hi:.0}, such as 587.6 (the d line, the default), 656.3 (red) or 486.1 (blue)"
+                ),
+            )
+        }
+    }
+
+    fn colours(&self, list: &Spanned<Vec<Spanned<raw::RawColour>>>) -> Result<Vec<Colour>, KitError> {
+        if list.get_ref().len() > MAX_COLOURS {
+            return self.err(
+                list.span(),
+                "ray_box.colours".into(),
+                format!("{} colours given", list.get_ref().len()),
+                &format!("give at most {MAX_COLOURS} colours, one per filter"),
+            );
+        }
+        let mut out: Vec<Colour> = Vec::new();
+        for (j, c) in list.get_ref().iter().enumerate() {
+            let f = |name: &str| format!("ray_box.colours[{}].{name}", j + 1);
+            let c = c.get_ref();
+            self.printable(&c.name, f("name"))?;
+            let name = c.name.get_ref().trim().to_string();
+            if name.is_empty() {
+                return self.err(
+                    c.name.span(),
+                    f("name"),
+                    "the colour has no name".into(),
+                    "give the name printed beside its rays, such as \"red\"",
+                );
+            }
+            if let Some(prev) = out.iter().find(|o| o.name.to_lowercase() == name.to_lowercase()) {
+                return self.err(
+                    c.name.span(),
+                    f("name"),
+                    format!("colour \"{name}\" is given twice (as \"{}\")", prev.name),
+                    "give every colour its own name",
+                );
+            }
+            let wavelength_nm = self.wavelength(&c.wavelength_nm, f("wavelength_nm"))?;
+            out.push(Colour { name, wavelength_nm });
+        }
+        Ok(out)
+    }
+
     fn ray_box(&self, raw: Option<Spanned<raw::RawRayBox>>) -> Result<RayBox, KitError> {
         let mut rb = RayBox::default();
         let Some(raw) = raw else { return Ok(rb) };
@@ -421,6 +597,12 @@ impl Validator<'_> {
                     "the ray width must be less than spacing_mm",
                 );
             }
+        }
+        if let Some(w) = &raw.wavelength_nm {
+            rb.wavelength_nm = self.wavelength(w, "ray_box.wavelength_nm".into())?;
+        }
+        if let Some(c) = &raw.colours {
+            rb.colours = self.colours(c)?;
         }
         Ok(rb)
     }
@@ -520,7 +702,8 @@ impl Validator<'_> {
         &self,
         i: usize,
         sp: &Spanned<RawPiece>,
-        materials: &BTreeMap<String, f64>,
+        materials: &BTreeMap<String, Material>,
+        wavelength_nm: f64,
     ) -> Result<KitPiece, KitError> {
         let p = sp.get_ref();
         let f = |name: &str| format!("pieces[{}].{name}", i + 1);
@@ -534,7 +717,7 @@ impl Validator<'_> {
             );
         }
         let material = p.material.get_ref().clone();
-        let Some(&index) = materials.get(&material) else {
+        let Some(index) = materials.get(&material).map(|m| m.index_at(wavelength_nm)) else {
             let known: Vec<&str> = materials.keys().map(String::as_str).collect();
             let hint = if known.is_empty() {
                 format!("add a [materials.{material}] table with index = 1.49")

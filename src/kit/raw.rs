@@ -31,9 +31,19 @@ pub(super) struct RawPrinter {
 #[derive(Deserialize, Debug)]
 #[serde(deny_unknown_fields)]
 pub(super) struct RawMaterial {
-    pub index: Spanned<f64>,
+    pub index: Option<Spanned<f64>>,
+    pub sellmeier: Option<Spanned<RawSellmeier>>,
+    pub catalog: Option<Spanned<String>>,
     #[expect(dead_code, reason = "accepted for the teacher's own notes; not printed")]
     pub label: Option<Spanned<String>>,
+}
+
+/// `sellmeier = { b = [...], c_um2 = [...] }`.
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawSellmeier {
+    pub b: Spanned<Vec<Spanned<f64>>>,
+    pub c_um2: Spanned<Vec<Spanned<f64>>>,
 }
 
 #[derive(Deserialize, Debug)]
@@ -42,6 +52,16 @@ pub(super) struct RawRayBox {
     pub rays: Option<Spanned<i64>>,
     pub spacing_mm: Option<Spanned<f64>>,
     pub ray_width_mm: Option<Spanned<f64>>,
+    pub wavelength_nm: Option<Spanned<f64>>,
+    pub colours: Option<Spanned<Vec<Spanned<RawColour>>>>,
+}
+
+/// One of the ray box's colours: `{ name = "red", wavelength_nm = 656.3 }`.
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawColour {
+    pub name: Spanned<String>,
+    pub wavelength_nm: Spanned<f64>,
 }
 
 #[derive(Deserialize, Debug)]
@@ -78,11 +98,16 @@ pub(super) struct RawClass {
     pub grid_mm: Option<Spanned<f64>>,
 }
 
+/// Inline tables inside other tables, named by their key in [`TABLE_FIELDS`].
+pub(super) const NESTED_TABLES: &[&str] = &["sellmeier", "colours"];
+
 /// Field names each table accepts, for "did you mean" hints.
 pub(super) const TABLE_FIELDS: &[(&str, &[&str])] = &[
     ("", &["title", "materials", "ray_box", "pieces", "sheets", "paper", "class"]),
-    ("materials", &["index", "label"]),
-    ("ray_box", &["rays", "spacing_mm", "ray_width_mm"]),
+    ("materials", &["index", "sellmeier", "catalog", "label"]),
+    ("sellmeier", &["b", "c_um2"]),
+    ("ray_box", &["rays", "spacing_mm", "ray_width_mm", "wavelength_nm", "colours"]),
+    ("colours", &["name", "wavelength_nm"]),
     (
         "pieces",
         &[

@@ -12,6 +12,7 @@
 mod axial;
 mod face;
 mod lens;
+pub mod material;
 pub mod measure;
 mod outline;
 mod paraxial;
@@ -22,6 +23,7 @@ mod trace;
 pub use axial::{AxialTrace, Outcome, trace_parallel, trace_ray};
 pub use face::Face;
 pub use lens::{Entry, Lens};
+pub use material::{Dispersion, MAX_INDEX, Material, MaterialError, PUBLISHED, Published, VISIBLE_NM};
 pub use outline::{Boundary, Outline};
 pub use paraxial::Paraxial;
 pub use piece::{Block, BlockFace, MAX_PIECE_MM, MIN_PIECE_MM, Piece, PieceError, Prism, PrismFace};

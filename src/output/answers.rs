@@ -1,6 +1,7 @@
 //! The answer file: every plan's answers written for machines (JSON). The
 //! fields every sheet has come first; the kind adds its own (see each kind's
-//! `answers`).
+//! `answers`). Every ray then carries the wavelength it is traced at and the
+//! index there, right after its letter.
 
 use serde_json::{Map, Value, json};
 
@@ -23,8 +24,14 @@ pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> Strin
             m.insert("group".into(), json!(p.group));
             m.insert("variant".into(), json!(p.variant));
             m.insert("index".into(), json!(p.index));
+            m.insert("wavelength_nm".into(), json!(p.wavelength_nm));
             if let Value::Object(kind) = p.view().answers() {
                 m.extend(kind);
+            }
+            if let Some(Value::Array(rays)) = m.get_mut("rays") {
+                for ray in rays.iter_mut() {
+                    with_light(ray, p.wavelength_nm, p.index);
+                }
             }
             m.insert("measured".into(), measured_json(p));
             m.insert("warnings".into(), json!(p.warnings));
@@ -52,4 +59,48 @@ fn measured_json(p: &SheetPlan) -> Value {
             }),
         })
         .collect()
+}
+
+/// Puts `wavelength_nm` and `index` right after the ray's letter (`ray`), unless
+/// the kind already gave the ray its own (a colour of the ray box).
+fn with_light(ray: &mut Value, wavelength_nm: f64, index: f64) {
+    let Value::Object(fields) = ray else { return };
+    if fields.contains_key("wavelength_nm") {
+        return;
+    }
+    let mut out = Map::new();
+    let mut placed = false;
+    for (k, v) in std::mem::take(fields) {
+        let letter = k == "ray";
+        out.insert(k, v);
+        if letter {
+            out.insert("wavelength_nm".into(), json!(wavelength_nm));
+            out.insert("index".into(), json!(index));
+            placed = true;
+        }
+    }
+    if !placed {
+        out.insert("wavelength_nm".into(), json!(wavelength_nm));
+        out.insert("index".into(), json!(index));
+    }
+    *fields = out;
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn light_goes_right_after_the_letter_and_a_ray_s_own_is_kept() {
+        let mut ray = json!({ "ray": "A", "height_mm": 8.0, "outcome": "crosses" });
+        with_light(&mut ray, 587.6, 1.49);
+        let keys: Vec<&String> = ray.as_object().unwrap().keys().collect();
+        assert_eq!(keys, ["ray", "wavelength_nm", "index", "height_mm", "outcome"]);
+        assert_eq!(ray["wavelength_nm"], json!(587.6));
+        assert_eq!(ray["index"], json!(1.49));
+        let mut own = json!({ "ray": "A", "wavelength_nm": 656.3, "index": 1.48 });
+        with_light(&mut own, 587.6, 1.49);
+        assert_eq!(own["wavelength_nm"], json!(656.3));
+        assert_eq!(own["index"], json!(1.48));
+    }
 }

@@ -4,7 +4,8 @@ use std::fmt::Write;
 
 use crate::kit::Kit;
 use crate::layout;
-use crate::optics::{Entry, Paraxial, Piece};
+use crate::optics::material::{C_LINE_NM, D_LINE_NM, F_LINE_NM};
+use crate::optics::{Entry, PUBLISHED, Paraxial, Piece};
 use crate::paper::{NAMED_SIZES, Orientation, PaperSize, PaperSpec};
 use crate::plan::{fmt1, fmt2_or_none};
 use crate::sheets::SheetPlan;
@@ -185,5 +186,43 @@ pub fn paper_report<'a>(plans: impl Iterator<Item = &'a SheetPlan>, paper: &Pape
     for (number, (_, words)) in sheet_pages(plans, paper) {
         let _ = writeln!(s, "  sheet {number}: {words}");
     }
+    s
+}
+
+/// The `materials` listing: every built-in published material with its kit
+/// word, source, formula and n at the F, d and C lines with its Abbe number.
+pub fn materials_report() -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "Built-in materials: name one in a kit with [materials.NAME] catalog = \"…\"");
+    let _ = writeln!(
+        s,
+        "  {:<22} {:<15} {:>11} {:>11} {:>11} {:>7}",
+        "catalog",
+        "material",
+        format!("n {F_LINE_NM} nm"),
+        format!("n {D_LINE_NM} nm"),
+        format!("n {C_LINE_NM} nm"),
+        "Abbe V"
+    );
+    for p in &PUBLISHED {
+        let m = p.material();
+        let v = m.abbe_number().map(|v| format!("{v:.2}")).unwrap_or_else(|| "-".into());
+        let _ = writeln!(
+            s,
+            "  {:<22} {:<15} {:>11.5} {:>11.5} {:>11.5} {:>7}",
+            p.word,
+            p.substance,
+            m.index_at(F_LINE_NM),
+            m.index_at(D_LINE_NM),
+            m.index_at(C_LINE_NM),
+            v
+        );
+        let _ = writeln!(s, "      source: {}", p.citation);
+        let _ = writeln!(s, "      formula: {}", p.form);
+    }
+    let _ = writeln!(
+        s,
+        "Abbe V = (n_d − 1)/(n_F − n_C) at these lines. Coefficients as stored in the refractiveindex.info database. Or give your own:\n  sellmeier = {{ b = [...], c_um2 = [...] }}   (n² − 1 = Σ bᵢλ²/(λ² − cᵢ), λ in µm)\n  index = 1.49                                (one index, no dispersion)"
+    );
     s
 }

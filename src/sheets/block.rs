@@ -15,6 +15,7 @@ use crate::geom::{Point, Vec2};
 use crate::kit::{Kit, KitError, SheetEntry};
 use crate::optics::{Block, BlockFace, Piece};
 use crate::paper::PaperSpec;
+use crate::plan::fmt_index;
 use crate::plan::scan::{Band, grid_values};
 use crate::scene::{Item, Rect};
 
@@ -165,6 +166,7 @@ impl Prepared for BlockPrepared<'_> {
             piece_label: kp.label.clone(),
             enter: Enter::Side,
             index: self.block.index,
+            wavelength_nm: self.kit.ray_box.wavelength_nm,
             group: None,
             variant: None,
             warnings,
@@ -274,7 +276,7 @@ impl SheetView for BlockPlan {
         let b = &self.block;
         let mut v = vec![w.fill(
             "block_snell",
-            &[("index", &b.index.to_string()), ("thickness", &b.thickness_mm.to_string())],
+            &[("index", &fmt_index(b.index)), ("thickness", &b.thickness_mm.to_string())],
         )];
         if let (Some(band), Some((lo, hi))) = (&self.plan.band, self.plan.band_words_in(w)) {
             v.push(av::band_line(band, &lo, &hi, w));
@@ -332,7 +334,7 @@ impl SheetView for BlockPlan {
                         with_range(&r.lateral_shift_mm, r.tolerance_mm, "mm", w)
                     ),
                     format!("t {} mm", self.block.thickness_mm),
-                    format!("n {}", self.block.index),
+                    format!("n {}", fmt_index(self.block.index)),
                 ]
             })
             .collect()
@@ -342,7 +344,9 @@ impl SheetView for BlockPlan {
         let _ = writeln!(
             s,
             "  block {} mm thick, faces {} mm long, n = {}: d = t·sin(i − r)/cos r",
-            self.block.thickness_mm, self.block.height_mm, self.block.index
+            self.block.thickness_mm,
+            self.block.height_mm,
+            fmt_index(self.block.index)
         );
         s.push_str(&av::report(&self.plan, true));
         s

@@ -136,8 +136,10 @@ pub struct SheetPlan {
     pub piece_label: Option<String>,
     /// Which face the light meets first.
     pub enter: Enter,
-    /// The piece's index of refraction.
+    /// The piece's index of refraction at [`SheetPlan::wavelength_nm`].
     pub index: f64,
+    /// The wavelength the sheet's rays are traced at, nm (the ray box's).
+    pub wavelength_nm: f64,
     /// The group, for class sets.
     pub group: Option<String>,
     /// The variant code.

@@ -17,6 +17,7 @@ use crate::geom::{Placement, Point, Vec2};
 use crate::kit::{Kit, KitError, SheetEntry};
 use crate::optics::{Piece, Prism, PrismFace};
 use crate::paper::PaperSpec;
+use crate::plan::fmt_index;
 use crate::plan::scan::{Band, grid_values};
 use crate::scene::{Item, Rect};
 
@@ -320,7 +321,7 @@ impl Prepared for PrismPrepared<'_> {
         if self.turns() && self.prism.index <= 2f64.sqrt() {
             warnings.push(format!(
                 "n = {} is not above √2: the long face cannot reflect the ray totally at 45°",
-                self.prism.index
+                fmt_index(self.prism.index)
             ));
         }
         let (lo, hi) = super::angled_drawing::extent(&plan);
@@ -339,6 +340,7 @@ impl Prepared for PrismPrepared<'_> {
             piece_label: kp.label.clone(),
             enter: self.spec.enter,
             index: self.prism.index,
+            wavelength_nm: self.kit.ray_box.wavelength_nm,
             group: None,
             variant: None,
             warnings,
@@ -454,7 +456,7 @@ impl SheetView for PrismPlan {
         let mut v = Vec::new();
         if self.turns() {
             v.push(
-                w.fill("prism_turn", &[("index", &p.index.to_string()), ("critical", &format!("{crit:.1}"))]),
+                w.fill("prism_turn", &[("index", &fmt_index(p.index)), ("critical", &format!("{crit:.1}"))]),
             );
             if self.entry == PrismEntry::Base {
                 v.push(w.say("prism_comes_back").to_string());
@@ -464,7 +466,7 @@ impl SheetView for PrismPlan {
                 "prism_deviation",
                 &[
                     ("apex", &format!("{a:.1}")),
-                    ("index", &p.index.to_string()),
+                    ("index", &fmt_index(p.index)),
                     ("critical", &format!("{crit:.1}")),
                 ],
             ));
@@ -552,7 +554,7 @@ impl SheetView for PrismPlan {
         let facts = match (self.turns(), self.minimum_deviation) {
             (true, _) => (
                 w.fill("summary_apex", &[("apex", &format!("{:.0}", self.prism.apex_rad.to_degrees()))]),
-                format!("n {}", self.prism.index),
+                format!("n {}", fmt_index(self.prism.index)),
             ),
             (false, Ok((d, i))) => {
                 (format!("δmin {d:.1}°"), w.fill("summary_at", &[("incidence", &format!("{i:.1}"))]))
@@ -582,7 +584,7 @@ impl SheetView for PrismPlan {
             p.apex_rad.to_degrees(),
             p.side_mm,
             p.base_mm(),
-            p.index,
+            fmt_index(p.index),
             self.entry.as_str()
         );
         let _ = match self.minimum_deviation {

@@ -358,6 +358,7 @@ pub fn plan_sheet_in_band(
         piece_label: kp.label.clone(),
         enter: kind::enter_of(entry),
         index: kp.piece.index(),
+        wavelength_nm: kit.ray_box.wavelength_nm,
         group: None,
         variant: None,
         warnings,
