@@ -236,3 +236,35 @@ fn fit_prints_the_index_and_the_kit_line() {
     let t = text(&raysheet(&["fit", &kit, "build/results.csv"], dir).stdout);
     assert!(t.contains("no index: 1 number measured"), "{t}");
 }
+
+/// grades.pdf: the class overview, then every sheet with a curve plotted with
+/// each group's measurements. The marks' plot data carries every measured
+/// number of the curve's quantity, at its ray's own guide height.
+#[test]
+fn grades_pdf_plots_every_groups_measurements_against_the_curve() {
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = tmp.path();
+    build(dir);
+    let filled = fill(dir, ',', |_, m| format!("{:.2}", m["value"].as_f64().unwrap()));
+    let answers = std::fs::read_to_string(dir.join("build/answers.json")).unwrap();
+    let g = raysheet::output::grade::grade(&filled, "results.csv", &answers, "answers.json").unwrap();
+    // class_trio.toml: one curve-face sheet, three groups, entered flat face first.
+    assert_eq!(g.plots.len(), 1);
+    let p = &g.plots[0];
+    assert_eq!((p.x.as_str(), p.y.as_str()), ("height_mm", "crossing_from_flat_face_mm"));
+    let want = expected(dir).keys().filter(|k| k.3 == p.y).count();
+    assert_eq!(p.points.len(), want, "every measured crossing from the flat face");
+    assert!(p.points.iter().all(|q| q.2), "the key's own values are within");
+    // Each point lies on the exact curve (within the 0.01 mm rounding of the
+    // filled-in values and the curve's sampling): interpolate the curve at its height.
+    for &(h, y, _) in &p.points {
+        let seg = p.curve.windows(2).find(|w| w[0].0 <= h && h <= w[1].0).expect("inside the curve");
+        let t = (h - seg[0].0) / (seg[1].0 - seg[0].0);
+        let on = seg[0].1 + t * (seg[1].1 - seg[0].1);
+        assert!((on - y).abs() < 0.3, "({h}, {y}) against {on}");
+    }
+    std::fs::write(dir.join("build/results.csv"), filled).unwrap();
+    assert_code(&raysheet(&["grade", "build/results.csv", "--out", "marks"], dir), 0);
+    let doc = lopdf::Document::load(dir.join("marks/grades.pdf")).unwrap();
+    assert_eq!(doc.get_pages().len(), 2, "the overview, and one page for the plot");
+}

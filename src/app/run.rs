@@ -159,9 +159,29 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
                 let name = if group.is_empty() { "(no group)" } else { group };
                 overview.push_str(&format!("  {name}: {within} / {measured} ({asked})\n"));
             }
+            let words = crate::layout::Templates::shipped().map_err(Failure::Other)?.words;
+            let marks: Vec<crate::layout::GroupMarks> = g
+                .groups
+                .iter()
+                .map(|(group, within, measured, asked)| crate::layout::GroupMarks {
+                    group: group.clone(),
+                    within: *within,
+                    measured: *measured,
+                    asked: *asked,
+                })
+                .collect();
+            let title = serde_json::from_str::<serde_json::Value>(&answers_text)
+                .ok()
+                .and_then(|v| v["kit"].as_str().map(str::to_string))
+                .unwrap_or_default();
+            let scene = crate::layout::grades_scene(&title, &marks, &g.plots, &words);
+            let pdf = crate::render::render_pdf(&scene).map_err(|e| Failure::Other(e.to_string()))?;
             Ok(Outcome::Write(Writing {
                 dir,
-                files: vec![Output { path: "grades.csv".into(), bytes: g.csv.into_bytes() }],
+                files: vec![
+                    Output { path: "grades.csv".into(), bytes: g.csv.into_bytes() },
+                    Output { path: "grades.pdf".into(), bytes: pdf },
+                ],
                 force,
                 warnings: g.warnings,
                 what: Written::Grades,

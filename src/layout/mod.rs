@@ -5,12 +5,14 @@
 
 mod calibrate;
 pub mod fit;
+mod grades;
 mod summary;
 mod templates;
 pub mod tiles;
 
 pub use calibrate::calibration_scene;
 pub use fit::TextFitError;
+pub use grades::{ClassPlotData, GroupMarks, grades_scene};
 pub use summary::summary_scene;
 pub use templates::{FILES as TEMPLATE_FILES, Templates, shipped_text as shipped_template};
 

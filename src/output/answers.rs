@@ -34,6 +34,12 @@ pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> Strin
                 }
             }
             m.insert("measured".into(), measured_json(p));
+            if let Some(c) = p.view().class_curve() {
+                m.insert(
+                    "class_curve".into(),
+                    json!({ "x": c.x, "y": c.y, "points": c.points, "paraxial": c.paraxial }),
+                );
+            }
             m.insert("warnings".into(), json!(p.warnings));
             Value::Object(m)
         })

@@ -45,6 +45,8 @@ pub struct Grades {
     pub groups: Vec<(String, usize, usize, usize)>,
     /// Variant codes that differ from the build's, and the like.
     pub warnings: Vec<String>,
+    /// For each sheet (and entry side) with a curve: the class's measurements against it.
+    pub plots: Vec<crate::layout::ClassPlotData>,
 }
 
 /// One expected answer from the answer file.
@@ -168,7 +170,64 @@ pub fn grade(
     answers_file: &str,
 ) -> Result<Grades, GradeError> {
     let Parsed { want, groups, rows, warnings } = parse(results, results_file, answers, answers_file)?;
-    grades_of(want, groups, rows, warnings)
+    let plots = class_plots(answers, &rows);
+    let mut g = grades_of(want, groups, rows, warnings)?;
+    g.plots = plots;
+    Ok(g)
+}
+
+/// Every sheet's curve from the answer file (one plot per sheet number and
+/// entry side, the first group's curve standing for the groups that share
+/// it), with each measured number of its quantity at its ray's setting.
+fn class_plots(answers: &str, rows: &[(Key, String, Option<Verdict>)]) -> Vec<crate::layout::ClassPlotData> {
+    let Ok(v) = serde_json::from_str::<Value>(answers) else { return Vec::new() };
+    let mut plots: Vec<(u64, String, crate::layout::ClassPlotData)> = Vec::new();
+    let mut settings: BTreeMap<(String, u64, String), f64> = BTreeMap::new();
+    let mut side: BTreeMap<(String, u64), String> = BTreeMap::new();
+    for s in v["sheets"].as_array().into_iter().flatten() {
+        let (group, number) =
+            (s["group"].as_str().unwrap_or("").to_string(), s["sheet"].as_u64().unwrap_or(0));
+        let enter = s["enter"].as_str().unwrap_or("").to_string();
+        side.insert((group.clone(), number), enter.clone());
+        let Some(c) = s.get("class_curve") else { continue };
+        let x_field = c["x"].as_str().unwrap_or("");
+        for r in s["rays"].as_array().into_iter().flatten() {
+            if let (Some(letter), Some(x)) = (r["ray"].as_str(), r[x_field].as_f64()) {
+                settings.insert((group.clone(), number, letter.to_string()), x.abs());
+            }
+        }
+        if plots.iter().any(|(n, e, _)| *n == number && *e == enter) {
+            continue;
+        }
+        let curve: Vec<(f64, f64)> = c["points"]
+            .as_array()
+            .into_iter()
+            .flatten()
+            .filter_map(|p| Some((p[0].as_f64()?, p[1].as_f64()?)))
+            .collect();
+        plots.push((
+            number,
+            enter,
+            crate::layout::ClassPlotData {
+                sheet: number,
+                x: x_field.to_string(),
+                y: c["y"].as_str().unwrap_or("").to_string(),
+                curve,
+                paraxial: c["paraxial"].as_f64(),
+                points: Vec::new(),
+            },
+        ));
+    }
+    for (key, _, verdict) in rows {
+        let Some(Verdict::Number { measured, within, .. }) = verdict else { continue };
+        let Some(x) = settings.get(&(key.0.clone(), key.1, key.2.clone())) else { continue };
+        let enter = side.get(&(key.0.clone(), key.1)).cloned().unwrap_or_default();
+        if let Some((_, _, p)) = plots.iter_mut().find(|(n, e, p)| *n == key.1 && *e == enter && p.y == key.3)
+        {
+            p.points.push((*x, measured.abs(), *within));
+        }
+    }
+    plots.into_iter().map(|(_, _, p)| p).collect()
 }
 
 /// Reads and checks a results file against its answer file (every row's
@@ -392,7 +451,7 @@ fn grades_of(
             (g, within, measured, asked)
         })
         .collect();
-    Ok(Grades { csv, groups, warnings })
+    Ok(Grades { csv, groups, warnings, plots: Vec::new() })
 }
 
 /// How one measured answer compares.

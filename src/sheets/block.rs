@@ -217,6 +217,19 @@ pub struct BlockPlan {
 }
 
 impl SheetView for BlockPlan {
+    fn class_curve(&self) -> Option<crate::sheets::ClassCurve> {
+        // Snell's law at the entry face (sin i = n sin r), every degree to 89°.
+        let n = self.plan.setup.index;
+        let points = (0..=89)
+            .map(|i| (f64::from(i), (f64::from(i).to_radians().sin() / n).asin().to_degrees()))
+            .collect();
+        Some(crate::sheets::ClassCurve {
+            x: "angle_of_incidence_deg",
+            y: "refraction_angle_deg",
+            points,
+            paraxial: None,
+        })
+    }
     fn measured_at_index(&self, index: f64) -> Vec<crate::sheets::Measured> {
         BlockPlan { plan: self.plan.with_index(index), ..self.clone() }.measured()
     }

@@ -205,6 +205,22 @@ pub enum Want {
     Observation(&'static str),
 }
 
+/// The curve a class's measurements are plotted against when marking: one
+/// measured quantity against the ray's setting, exact, sampled.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ClassCurve {
+    /// The setting along x: `height_mm` or `angle_of_incidence_deg` (the
+    /// answer file's ray field).
+    pub x: &'static str,
+    /// The measured quantity along y (its `measured` name).
+    pub y: &'static str,
+    /// Samples (setting, exact value), settings rising; sizes for angles and
+    /// heights (the curve is symmetric in the sign).
+    pub points: Vec<(f64, f64)>,
+    /// The paraxial value (lens sheets), drawn as a line.
+    pub paraxial: Option<f64>,
+}
+
 /// What layout and output ask of a planned sheet. Everything printed takes
 /// the words to print with ([`Words`], from `templates/words.toml`).
 pub trait SheetView {
@@ -249,6 +265,9 @@ pub trait SheetView {
     /// answers are graded stay), for fitting a kit's real index to what a
     /// class measured. An answer that no longer exists at `index` is left out.
     fn measured_at_index(&self, index: f64) -> Vec<Measured>;
+    /// The exact curve the class's measurements of this sheet are plotted
+    /// against when marking, if the sheet has one.
+    fn class_curve(&self) -> Option<ClassCurve>;
 }
 
 impl SheetPlan {

@@ -373,6 +373,18 @@ impl PrismPlan {
 }
 
 impl SheetView for PrismPlan {
+    fn class_curve(&self) -> Option<crate::sheets::ClassCurve> {
+        // The deviation the key plots against the angle of incidence (turning
+        // prisms turn by a fixed angle: nothing to plot).
+        let points: Vec<(f64, f64)> =
+            self.plan.deviation_curve.iter().map(|&(i, d)| (i.abs(), d.abs())).collect();
+        (!self.turns() && points.len() > 1).then_some(crate::sheets::ClassCurve {
+            x: "angle_of_incidence_deg",
+            y: "deviation_deg",
+            points,
+            paraxial: None,
+        })
+    }
     fn measured_at_index(&self, index: f64) -> Vec<crate::sheets::Measured> {
         PrismPlan { plan: self.plan.with_index(index), ..self.clone() }.measured()
     }

@@ -136,6 +136,31 @@ impl SheetView for LensPlan {
         self.setup
     }
 
+    fn class_curve(&self) -> Option<crate::sheets::ClassCurve> {
+        // The table's first column: the flat face or the exit face, as `measured` names it.
+        let t = self.outline.t();
+        let flat_first = matches!(self.outline.entry_face, crate::optics::Face::Flat);
+        let diverging = self.is_diverging();
+        let (y, x_ref) = match self.kind {
+            SheetKind::CurvedFace => ("crossing_from_flat_face_mm", if flat_first { 0.0 } else { t }),
+            _ if diverging => ("traced_back_from_exit_face_mm", t),
+            _ => ("crossing_from_exit_face_mm", t),
+        };
+        let dist = |x: f64| if diverging { x_ref - x } else { x - x_ref };
+        let points: Vec<(f64, f64)> = self
+            .crossing_curve
+            .points
+            .iter()
+            .map(|p| (p.height_mm, dist(p.crossing_from_entry_mm)))
+            .collect();
+        (!points.is_empty()).then(|| crate::sheets::ClassCurve {
+            x: "height_mm",
+            y,
+            points,
+            paraxial: self.paraxial.rear_focus_x().map(dist),
+        })
+    }
+
     fn measured_at_index(&self, index: f64) -> Vec<Measured> {
         let p = &self.outline.piece;
         let Ok(lens) = crate::optics::Lens::new(p.front(), p.back(), p.thickness_mm(), p.height_mm(), index)
