@@ -934,6 +934,8 @@ fn side_block(p: &SheetPlan, r: &Rect, labels: &ScaleLabels, role: Role, w: &Wor
     let upper = Rect { min: Point::new(r.min.x, y + 8.0), max: Point::new(vx - 6.0, r.max.y) };
     if role == Role::Key && upper.height() > 20.0 {
         out.extend(p.view().key_plot(upper, w));
+    } else if role == Role::Student && upper.height() > 20.0 && !p.view().student_plot(upper, w).is_empty() {
+        out.extend(p.view().student_plot(upper, w));
     } else if role == Role::Student
         && let Some(msg) = p.view().student_note(w)
     {

@@ -15,8 +15,11 @@ pub mod angled_view;
 pub mod block;
 mod class;
 pub mod deviation_plot;
+pub mod index;
 pub mod lens;
 pub mod prism;
+pub mod protractor;
+pub mod protractor_drawing;
 mod spec;
 
 pub use class::{ClassPlan, plan_class};
@@ -38,12 +41,22 @@ pub enum SheetKind {
     Block,
     /// Deviation through a prism; turning by total reflection in a right-angle prism.
     Prism,
+    /// Index of refraction: a half-disc at a printed protractor.
+    Index,
+    /// Rays either side of the critical angle at a half-disc's flat face.
+    CriticalAngle,
 }
 
 impl SheetKind {
     /// Every kind, in the order the README lists them.
-    pub const ALL: [SheetKind; 4] =
-        [SheetKind::CurvedFace, SheetKind::Focal, SheetKind::Block, SheetKind::Prism];
+    pub const ALL: [SheetKind; 6] = [
+        SheetKind::CurvedFace,
+        SheetKind::Focal,
+        SheetKind::Block,
+        SheetKind::Prism,
+        SheetKind::Index,
+        SheetKind::CriticalAngle,
+    ];
 
     /// The module that implements the kind.
     pub fn def(self) -> &'static dyn Kind {
@@ -52,6 +65,8 @@ impl SheetKind {
             SheetKind::Focal => &lens::FOCAL,
             SheetKind::Block => &block::KIND,
             SheetKind::Prism => &prism::KIND,
+            SheetKind::Index => &index::INDEX,
+            SheetKind::CriticalAngle => &index::CRITICAL,
         }
     }
 
@@ -157,6 +172,8 @@ pub enum Detail {
     Block(Box<block::BlockPlan>),
     /// Prism sheets.
     Prism(Box<prism::PrismPlan>),
+    /// Index and critical-angle sheets.
+    Protractor(Box<index::ProtractorView>),
 }
 
 impl Detail {
@@ -166,6 +183,7 @@ impl Detail {
             Detail::Lens(p) => p.as_ref(),
             Detail::Block(p) => p.as_ref(),
             Detail::Prism(p) => p.as_ref(),
+            Detail::Protractor(p) => p.as_ref(),
         }
     }
 }
@@ -190,9 +208,9 @@ pub trait SheetView {
     /// The measurement table's rows, in letter order: every column filled on
     /// the key, only the given values (letter, setting) on the student sheet.
     fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>>;
-    /// The four columns' shares of the table's width.
-    fn table_widths(&self) -> [f64; 4] {
-        [0.09, 0.17, 0.47, 0.27]
+    /// The columns' shares of the table's width, one per column of its template.
+    fn table_widths(&self) -> Vec<f64> {
+        vec![0.09, 0.17, 0.47, 0.27]
     }
     /// The key's text: exact values, accept ranges and the safe band's reasons.
     fn key_lines(&self, w: &Words) -> Vec<String>;
@@ -200,6 +218,12 @@ pub trait SheetView {
     fn key_plot(&self, rect: Rect, w: &Words) -> Vec<Item>;
     /// A line for the student to fill in under the table, if any.
     fn student_note(&self, w: &Words) -> Option<String>;
+    /// A blank plot for the student to fill in, in `rect` (page mm), where
+    /// the key has its plot; empty when the kind has none (the student note
+    /// goes there then).
+    fn student_plot(&self, _rect: Rect, _w: &Words) -> Vec<Item> {
+        Vec::new()
+    }
     /// The kind's part of the answer file, as a JSON object.
     fn answers(&self) -> serde_json::Value;
     /// The class summary's rows, one per guide ray in letter order.
