@@ -661,6 +661,25 @@ fn random_kit(kind: u8, a: f64, b: f64, c: f64, n: f64, rays: u32, paper: &str) 
             20.0 + 40.0 * a,
             40.0 + 60.0 * b
         ),
+        // Index and critical-angle: a half-disc, flat face front or back.
+        5 | 6 => {
+            let r = 20.0 + 40.0 * a;
+            let curved = format!("{{ curve = \"convex\", radius_mm = {r:.1} }}");
+            let (front, back) =
+                if b > 0.5 { ("\"flat\"".to_string(), curved) } else { (curved, "\"flat\"".to_string()) };
+            let sheet = if kind == 5 {
+                format!(
+                    "kind = \"index\"\npiece = \"p\"\nenter = \"{}\"\n",
+                    if c > 0.5 { "flat" } else { "curved" }
+                )
+            } else {
+                "kind = \"critical-angle\"\npiece = \"p\"\n".to_string()
+            };
+            format!(
+                "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = {front}\nback = {back}\nthickness_mm = {r:.1}\nheight_mm = {:.1}\n[[sheets]]\n{sheet}",
+                2.0 * r
+            )
+        }
         _ => {
             let apex = if c > 0.7 { 90.0 } else { 40.0 + 40.0 * a };
             let enter = if c > 0.85 { "base" } else { "side" };
@@ -677,7 +696,7 @@ proptest! {
     #![proptest_config(ProptestConfig { cases: 24, max_shrink_iters: 16, ..ProptestConfig::default() })]
     #[test]
     fn random_kits_of_every_kind_lay_out_cleanly(
-        kind in 0u8..5, a in 0.0f64..1.0, b in 0.0f64..1.0, c in 0.0f64..1.0,
+        kind in 0u8..7, a in 0.0f64..1.0, b in 0.0f64..1.0, c in 0.0f64..1.0,
         n in 1.45f64..1.6, rays in 1u32..6, letter in proptest::bool::ANY,
     ) {
         let text = random_kit(kind, a, b, c, n, rays, if letter { "Letter" } else { "A4" });
