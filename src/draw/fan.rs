@@ -161,9 +161,10 @@ impl AngleTicks {
 
     /// Places each number where it is meant to go if that is free and inside
     /// `bounds`; otherwise beside that spot, a little along the scale either
-    /// way, or twice as far, or further out along its tick's line (guide lines
-    /// running through the number's place); failing all, the number is left
-    /// out, never drawn over a line or a label.
+    /// way, or twice as far, or further out along its tick's line (and beside
+    /// that), or further still (guide lines running through the number's
+    /// place); failing all, the number is left out, never drawn over a line or
+    /// a label.
     pub fn place_numbers(&self, placer: &mut Placer, bounds: &Rect) -> Vec<Item> {
         let mut items = Vec::new();
         for n in &self.numbers {
@@ -181,6 +182,9 @@ impl AngleTicks {
                 n.center + along * (2.0 * shift),
                 n.center - along * (2.0 * shift),
                 n.center + out,
+                n.center + out + along * shift,
+                n.center + out - along * shift,
+                n.center + out * 2.0,
             ];
             let boxes: Vec<Rect> = centers
                 .iter()

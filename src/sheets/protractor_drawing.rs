@@ -18,8 +18,9 @@ use crate::draw::{
 use crate::geom::{Point, Vec2};
 use crate::scene::{Dash, Item, Rect, Stroke};
 
-/// Length of the ray-box bar across each guide line's start, mm.
-const BAR_MM: f64 = 8.0;
+/// Length of the ray-box bar across each guide line's start, mm (shorter
+/// than on block sheets: guides 10° apart are 10 mm apart at the bars).
+const BAR_MM: f64 = 6.0;
 /// Room kept round everything for labels, mm (sideways, up and down).
 const LABEL_ROOM_MM: (f64, f64) = (12.0, 6.0);
 /// Dashes of the leader from a guide's start to its label.
@@ -284,7 +285,14 @@ pub fn key(plan: &ProtractorPlan, bounds: &Rect, placer: &mut Placer, w: &Words)
             (RayOutcome::TotalReflection, _) => w.fill("total_reflection_label", &[("rays", &k.letter)]),
             _ => w.fill("what_happened", &[("ray", &k.letter), ("what", w.say("happened_off_path"))]),
         };
-        label(&mut items, placer, bounds, &s, VALUE_PT, end, u);
+        // At the ray's end, else further back along it (still outside the scale).
+        let back = end.distance(before).min(plan.setup.lead_mm - plan.setup.scale_radius_mm);
+        for t in [0.0, 0.25, 0.5, 0.75] {
+            if let Some(mut it) = place_near(placer, bounds, &s, VALUE_PT, end - u * (t * back), u.perp()) {
+                items.append(&mut it);
+                break;
+            }
+        }
     }
     items
 }
