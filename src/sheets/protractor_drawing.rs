@@ -21,8 +21,9 @@ use crate::scene::{Dash, Item, Rect, Stroke};
 /// Length of the ray-box bar across each guide line's start, mm (shorter
 /// than on block sheets: guides 10° apart are 10 mm apart at the bars).
 const BAR_MM: f64 = 6.0;
-/// Room kept round everything for labels, mm (sideways, up and down).
-const LABEL_ROOM_MM: (f64, f64) = (12.0, 6.0);
+/// Room kept round everything for labels, mm (sideways: the key's values at
+/// the rays' ends; up and down).
+const LABEL_ROOM_MM: (f64, f64) = (24.0, 6.0);
 /// Dashes of the leader from a guide's start to its label.
 const LEADER_DASH: Dash = Dash::Dashed { on_mm: 0.8, off_mm: 0.7 };
 
@@ -440,4 +441,78 @@ pub fn key_plot(plan: &ProtractorPlan, rect: Rect, w: &Words) -> Vec<Item> {
         label(&mut items, &mut placer, &room, letter, crate::draw::style::SMALL_PT, at, Vec2::new(1.0, -1.0));
     }
     items
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::optics::{Face, Lens};
+    use crate::sheets::angled::AngleRules;
+    use crate::sheets::protractor::ProtractorSetup;
+
+    fn plan(side: Side, angles: &[f64]) -> ProtractorPlan {
+        let lens = Lens::new(Face::Flat, Face::Convex { radius_mm: 38.0 }, 38.0, 76.0, 1.491).unwrap();
+        ProtractorPlan::new(
+            ProtractorSetup::new(&lens, side).unwrap(),
+            AngleRules::for_ray_width(2.0),
+            angles,
+        )
+    }
+
+    /// The printed numbers of the student drawing and every label of both drawings.
+    fn draw(p: &ProtractorPlan) -> (Vec<String>, Vec<String>) {
+        let (lo, hi) = extent(p);
+        let bounds = Rect { min: lo, max: hi };
+        let mut placer = Placer::default();
+        let w = Words::shipped();
+        let s = student(p, &bounds, &mut placer, &w);
+        let k = key(p, &bounds, &mut placer, &w);
+        let texts = |items: &[Item]| -> Vec<String> {
+            items
+                .iter()
+                .filter_map(|i| match i {
+                    Item::Text { text, .. } => Some(text.clone()),
+                    _ => None,
+                })
+                .collect()
+        };
+        let numbers = texts(&s).into_iter().filter(|t| t.parse::<u32>().is_ok()).collect();
+        (numbers, [texts(&s), texts(&k)].concat())
+    }
+
+    #[test]
+    fn every_number_round_the_protractor_prints_even_where_guides_cross_it() {
+        // 19 numbers on the air side (90, 80 … 0 … 80, 90), 17 on the other (80 … 0 … 80).
+        for (side, angles) in [
+            (Side::Curved, vec![10.0, 20.0, 30.0, 50.0]),
+            (Side::Flat, vec![10.0, 20.0, 30.0, 40.0, 50.0, 60.0]),
+            // The critical-angle sheet's guides lie 1° apart.
+            (Side::Curved, vec![39.0, 40.0, 44.0, 45.0]),
+            (Side::Curved, vec![40.0, 41.0, 43.0, 44.0]),
+        ] {
+            let p = plan(side, &angles);
+            let (numbers, labels) = draw(&p);
+            assert_eq!(numbers.len(), 36, "{side:?} {angles:?}: {numbers:?}");
+            for r in &p.rays {
+                let guide = format!("{} {}", r.letter, angle(r.incidence_deg));
+                assert!(labels.contains(&guide), "{guide:?} in {labels:?}");
+                assert!(
+                    labels.iter().any(|l| l.starts_with(&format!("{}: ", r.letter))),
+                    "{} named on the key: {side:?} {angles:?} {labels:?}",
+                    r.letter
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn staggered_guides_start_apart() {
+        let p = plan(Side::Curved, &[39.0, 40.0, 44.0, 45.0]);
+        let starts: Vec<Point> = p.rays.iter().map(|r| r.trace.incoming.origin).collect();
+        for (k, a) in starts.iter().enumerate() {
+            for b in &starts[k + 1..] {
+                assert!(a.distance(*b) > BAR_MM, "{starts:?}");
+            }
+        }
+    }
 }
