@@ -707,6 +707,48 @@ fn critical_angle_sheet_enters_only_the_curved_face() {
 }
 
 #[test]
+fn radius_sheet_on_a_piece_with_no_curved_face() {
+    // Issue 8: a radius sheet needs a curved face; `slab` is flat on both sides.
+    let text = edit(BASE, "kind = \"focal\"\npiece = \"cx90\"", "kind = \"radius\"\npiece = \"slab\"");
+    let (line, col) = at(&text, "piece = \"slab\"");
+    let col = col + "piece = ".len();
+    let shown = check(
+        &error(&text),
+        Expect {
+            line,
+            col: Some(col),
+            field: "sheets[2].piece",
+            hint: &["curve = \"convex\" or \"concave\""],
+        },
+    );
+    assert!(shown.contains("piece `slab` is a lens shape with two flat faces"), "{shown}");
+}
+
+#[test]
+fn radius_sheet_half_chord_beyond_the_piece() {
+    // cx90 is 50 mm high: a half-chord must stay under 25 mm.
+    for bad in ["25", "2", "\"wide\""] {
+        let text = edit(
+            BASE,
+            "kind = \"focal\"\npiece = \"cx90\"",
+            &format!("kind = \"radius\"\npiece = \"cx90\"\nhalf_chord_mm = {bad}"),
+        );
+        let (line, col) = at(&text, &format!("half_chord_mm = {bad}"));
+        let hint: &[&str] =
+            if bad.starts_with('"') { &["give a number"] } else { &["from 3 up to (not including) 25"] };
+        check(
+            &error(&text),
+            Expect {
+                line,
+                col: Some(col + "half_chord_mm = ".len()),
+                field: "sheets[2].half_chord_mm",
+                hint,
+            },
+        );
+    }
+}
+
+#[test]
 fn curved_face_sheet_cannot_vary_its_entry() {
     let text = edit(BASE, "heights_mm = [9, -9]", "heights_mm = [9, -9]\nvary_entry = true");
     let (line, col) = at(&text, "true");
@@ -874,7 +916,9 @@ fn bad_sheet_kind() {
             line,
             col: Some(col),
             field: "sheets[2].kind",
-            hint: &["\"curved-face\", \"focal\", \"block\", \"prism\", \"index\" or \"critical-angle\""],
+            hint: &[
+                "\"curved-face\", \"focal\", \"block\", \"prism\", \"index\", \"critical-angle\" or \"radius\"",
+            ],
         },
     );
 }

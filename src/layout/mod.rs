@@ -157,7 +157,8 @@ fn pages_on(p: &SheetPlan, paper: &PaperSpec) -> usize {
 }
 
 /// How many pages one plan's student sheet takes (the key takes as many): one,
-/// or a cover page and the drawing pages.
+/// or a cover page and the drawing pages; a gauge page (see
+/// [`crate::sheets::SheetView::has_gauge`]) comes on top.
 pub fn pages_needed(p: &SheetPlan, paper: &PaperSpec) -> usize {
     pages_on(p, &paper_for(p, paper))
 }
@@ -221,8 +222,52 @@ pub fn page_stem(p: &SheetPlan, role: Role) -> String {
 }
 
 /// The pages of one plan (a cover and drawing pages when tiled, see
-/// [`tiles`]), or the template text that cannot fit on this paper.
+/// [`tiles`]; then its gauge page, if it has one), or the template text that
+/// cannot fit on this paper.
 pub fn pages_for(
+    kit_title: &str,
+    p: &SheetPlan,
+    paper: &PaperSpec,
+    t: &Templates,
+    role: Role,
+) -> Result<Vec<Page>, TextFitError> {
+    let mut pages = drawing_pages(kit_title, p, paper, t, role)?;
+    if p.view().has_gauge() {
+        let paper = &paper_for(p, paper);
+        let rg = regions(paper);
+        let at = |m: Misfit| locate(m, t, paper, &rg);
+        let head = header_text(p, &rg, t).map_err(at)?;
+        let labels = scale_labels(&rg.side_block, t).map_err(at)?;
+        let foot = caution(&rg.caution, t).map_err(at)?;
+        let w = &t.words;
+        let mut items = header(kit_title, p, &rg, &head, role, None, w);
+        // The drawing's and the text block's room: above the scale bars on
+        // narrow paper (the side block under the text block), beside them on
+        // wide paper.
+        let stacked = rg.side_block.max.y <= rg.text_block.min.y + 1e-9;
+        let room = if stacked {
+            Rect { min: Point::new(rg.printable.min.x, rg.side_block.max.y + GAP_MM), max: rg.drawing.max }
+        } else {
+            Rect { min: rg.text_block.min, max: Point::new(rg.text_block.max.x, rg.drawing.max.y) }
+        };
+        items.extend(p.view().gauge(room, w));
+        let r = &rg.side_block;
+        let y = r.min.y + 6.0;
+        items.extend(across_bar(r.min.x + 1.0, y, &labels));
+        items.extend(up_bar(r.max.x - 3.0, r.min.y + 4.0, &labels));
+        items.extend(foot);
+        pages.push(Page {
+            width_mm: rg.page.0,
+            height_mm: rg.page.1,
+            name: format!("{}-gauge", page_stem(p, role)),
+            items,
+        });
+    }
+    Ok(pages)
+}
+
+/// The pages of one plan's drawing: one, or a cover and the drawing pages.
+fn drawing_pages(
     kit_title: &str,
     p: &SheetPlan,
     paper: &PaperSpec,

@@ -78,6 +78,7 @@ const SHIPPED: &[(&str, &str)] = &[
     ("prism-turn.toml", include_str!("../../templates/prism-turn.toml")),
     ("index.toml", include_str!("../../templates/index.toml")),
     ("critical-angle.toml", include_str!("../../templates/critical-angle.toml")),
+    ("radius.toml", include_str!("../../templates/radius.toml")),
     ("common.toml", include_str!("../../templates/common.toml")),
     ("words.toml", crate::draw::words::SHIPPED),
 ];
@@ -92,6 +93,7 @@ pub const FILES: &[&str] = &[
     "prism-turn.toml",
     "index.toml",
     "critical-angle.toml",
+    "radius.toml",
     "common.toml",
     "words.toml",
 ];

@@ -134,7 +134,8 @@ pub fn sheet_pages<'a>(
         .into_iter()
         .map(|(number, (pages, p))| {
             if pages <= 1 {
-                return (number, (pages, format!("one page ({})", turned(p, paper))));
+                let gauge = if p.view().has_gauge() { ", and its gauge page" } else { "" };
+                return (number, (pages, format!("one page ({}){gauge}", turned(p, paper))));
             }
             let t = layout::tiling_on(p, &layout::paper_for(p, paper));
             let setup = p.setup();

@@ -20,6 +20,8 @@ pub mod lens;
 pub mod prism;
 pub mod protractor;
 pub mod protractor_drawing;
+pub mod radius;
+pub mod radius_drawing;
 mod spec;
 
 pub use class::{ClassPlan, plan_class};
@@ -45,17 +47,20 @@ pub enum SheetKind {
     Index,
     /// Rays either side of the critical angle at a half-disc's flat face.
     CriticalAngle,
+    /// A lens shape's radii of curvature from a traced chord and sagitta.
+    Radius,
 }
 
 impl SheetKind {
     /// Every kind, in the order the README lists them.
-    pub const ALL: [SheetKind; 6] = [
+    pub const ALL: [SheetKind; 7] = [
         SheetKind::CurvedFace,
         SheetKind::Focal,
         SheetKind::Block,
         SheetKind::Prism,
         SheetKind::Index,
         SheetKind::CriticalAngle,
+        SheetKind::Radius,
     ];
 
     /// The module that implements the kind.
@@ -67,6 +72,7 @@ impl SheetKind {
             SheetKind::Prism => &prism::KIND,
             SheetKind::Index => &index::INDEX,
             SheetKind::CriticalAngle => &index::CRITICAL,
+            SheetKind::Radius => &radius::KIND,
         }
     }
 
@@ -174,6 +180,8 @@ pub enum Detail {
     Prism(Box<prism::PrismPlan>),
     /// Index and critical-angle sheets.
     Protractor(Box<index::ProtractorView>),
+    /// Radius sheets.
+    Radius(Box<radius::RadiusView>),
 }
 
 impl Detail {
@@ -184,6 +192,7 @@ impl Detail {
             Detail::Block(p) => p.as_ref(),
             Detail::Prism(p) => p.as_ref(),
             Detail::Protractor(p) => p.as_ref(),
+            Detail::Radius(p) => p.as_ref(),
         }
     }
 }
@@ -222,6 +231,14 @@ pub trait SheetView {
     /// the key has its plot; empty when the kind has none (the student note
     /// goes there then).
     fn student_plot(&self, _rect: Rect, _w: &Words) -> Vec<Item> {
+        Vec::new()
+    }
+    /// Whether the sheet (and its key) has a gauge page after its drawing.
+    fn has_gauge(&self) -> bool {
+        false
+    }
+    /// The gauge page's drawing in `rect` (page mm), when the sheet has one.
+    fn gauge(&self, _rect: Rect, _w: &Words) -> Vec<Item> {
         Vec::new()
     }
     /// The kind's part of the answer file, as a JSON object.
