@@ -276,3 +276,29 @@ fn the_printed_protractor_is_true_to_scale_in_the_pdf() {
         );
     }
 }
+
+#[test]
+fn fixed_angles_that_are_hard_to_set_up_are_warned_about() {
+    let l = kit(
+        "[[sheets]]\nkind = \"index\"\npiece = \"hd149\"\nenter = \"flat\"\nangles_deg = [30, 75]\n[[sheets]]\nkind = \"index\"\npiece = \"hd149\"\nangles_deg = [20, 88]\n[[sheets]]\nkind = \"critical-angle\"\npiece = \"hd149\"\nangles_deg = [42]\n",
+    );
+    let plans = plan_lesson(&l, &l.paper);
+    let w = |k: usize| plans[k].warnings.join("\n");
+    // 1/cos 75° = 3.9 ray widths on the face (block sheets stop at 3).
+    assert!(
+        w(0).contains(
+            "ray B at 75°: it meets the flat face so obliquely that its spot there is 4 ray widths long"
+        ),
+        "{}",
+        w(0)
+    );
+    assert!(!w(0).contains("ray A"), "{}", w(0));
+    // At 88° the ray enters 2·35·sin 1° = 1.2 mm from the corner (ray 2 mm wide).
+    assert!(
+        w(1).contains("ray B at 88°: it enters the curved face within a ray width and a half of the corner"),
+        "{}",
+        w(1)
+    );
+    // 42° is within the aiming error of θc = 42.16° (n = 1.49): not graded, and said so.
+    assert!(w(2).contains("ray A at 42°: within the aiming error of the critical angle (42.2°)"), "{}", w(2));
+}

@@ -305,7 +305,7 @@ impl Prepared for ProtractorPrepared<'_> {
             .unwrap_or_else(|| self.defaults());
         let plan = ProtractorPlan::new(self.setup.clone(), self.rules, &angles);
         let kp = &self.kit.pieces[self.spec.piece];
-        let warnings = plan
+        let mut warnings: Vec<String> = plan
             .rays
             .iter()
             .filter(|r| !r.graded())
@@ -318,6 +318,28 @@ impl Prepared for ProtractorPrepared<'_> {
                 )
             })
             .collect();
+        // Angles the kit fixed where the ray is hard to set up.
+        let w = self.rules.ray_width_mm;
+        for r in &plan.rays {
+            let i = r.incidence_deg;
+            match self.setup.side {
+                Side::Flat if i > FLAT_HIGH_DEG => warnings.push(format!(
+                    "ray {} at {}: it meets the flat face so obliquely that its spot there is {:.0} ray widths long",
+                    r.letter,
+                    angle(i),
+                    1.0 / i.to_radians().cos().max(1e-9)
+                )),
+                // Where the ray enters the curved face, against the corner at the flat face's end.
+                Side::Curved if 2.0 * self.setup.radius_mm * ((90.0 - i) / 2.0).to_radians().sin() < 1.5 * w => {
+                    warnings.push(format!(
+                        "ray {} at {}: it enters the curved face within a ray width and a half of the corner, so part of it misses",
+                        r.letter,
+                        angle(i)
+                    ));
+                }
+                _ => {}
+            }
+        }
         let (lo, hi) = super::protractor_drawing::extent(&plan);
         let view = ProtractorView {
             kind: self.spec.kind,
