@@ -515,7 +515,7 @@ impl SheetView for ProtractorView {
                 let mut m = Map::new();
                 m.insert("ray".into(), json!(r.letter));
                 m.insert("angle_of_incidence_deg".into(), json!(r.incidence_deg + 0.0));
-                m.insert("outcome".into(), json!(r.outcome.as_str()));
+                m.insert("outcome".into(), json!(r.outcome_word()));
                 m.insert("refraction_angle_deg".into(), r.refraction_deg.map_or(Value::Null, |v| json!(v)));
                 if let Some(v) = r.reflection_deg {
                     m.insert("reflection_angle_deg".into(), json!(v));
@@ -584,7 +584,7 @@ impl SheetView for ProtractorView {
                 vec![
                     ("ray", r.letter.clone()),
                     ("angle_of_incidence_deg", format!("{:.3}", r.incidence_deg + 0.0)),
-                    ("outcome", r.outcome.as_str().to_string()),
+                    ("outcome", r.outcome_word().to_string()),
                     ("refraction_angle_deg", r.refraction_deg.map(|v| format!("{v:.3}")).unwrap_or_default()),
                     ("tolerance_deg", format!("{:.3}", r.tolerance.total_deg)),
                     ("critical_angle_deg", format!("{crit:.3}")),
@@ -627,7 +627,7 @@ impl SheetView for ProtractorView {
                 "  {:<3}  {:>7}  {:<26} {:>9} {:>7}  {}",
                 r.letter,
                 format!("{:.1}", r.incidence_deg + 0.0),
-                r.outcome.as_str(),
+                r.outcome_word(),
                 r.refraction_deg.map_or("-".to_string(), |v| format!("{v:.2}")),
                 format!("{:.1}", r.tolerance.total_deg),
                 if r.graded() { "yes" } else { "no" }

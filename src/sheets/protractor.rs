@@ -134,13 +134,17 @@ pub enum RayOutcome {
     OffPath,
 }
 
-impl RayOutcome {
-    /// The answer-file word.
-    pub fn as_str(self) -> &'static str {
-        match self {
-            RayOutcome::Refracts => "refracts",
-            RayOutcome::TotalReflection => "total-internal-reflection",
-            RayOutcome::OffPath => "off-path",
+impl ProtractorRay {
+    /// The answer-file outcome (DESIGN.md, answer conventions): `refracts`,
+    /// `total-internal-reflection`, or for a ray off the sheet's path how its
+    /// trace ended: `misses`, `trapped` or `leaves-through-edge`.
+    pub fn outcome_word(&self) -> &'static str {
+        match (self.outcome, self.trace.end) {
+            (RayOutcome::Refracts, _) => "refracts",
+            (RayOutcome::TotalReflection, _) => "total-internal-reflection",
+            (RayOutcome::OffPath, End::Missed) => "misses",
+            (RayOutcome::OffPath, End::Trapped) => "trapped",
+            (RayOutcome::OffPath, End::Left { .. }) => "leaves-through-edge",
         }
     }
 }
@@ -473,6 +477,24 @@ mod tests {
         assert!(a.outcome_certain && a.graded());
         // 42.0° is within the aiming error of θc = 42.16°: not graded.
         assert!(!s.answer(&rules, 42.0, "C".into(), 59.0).graded());
+    }
+
+    #[test]
+    fn a_ray_off_the_sheets_path_says_how_it_ended() {
+        let rules = AngleRules::for_ray_width(2.0);
+        let mut s = ProtractorSetup::new(&half_disc(38.0, 1.49), Side::Curved).unwrap();
+        // The piece moved off the protractor's centre: the guide misses it.
+        s.shape = s.shape.placed(&crate::geom::Placement::translation(Vec2::new(0.0, 200.0)));
+        let ray = s.answer(&rules, 30.0, "A".into(), 59.0);
+        assert_eq!(ray.outcome, RayOutcome::OffPath);
+        assert_eq!(ray.outcome_word(), "misses");
+        assert!(!ray.graded() && ray.refraction_deg.is_err());
+        // Moved a little: the ray meets the flat face, but not at the centre.
+        let mut s = ProtractorSetup::new(&half_disc(38.0, 1.49), Side::Curved).unwrap();
+        s.shape = s.shape.placed(&crate::geom::Placement::translation(Vec2::new(0.0, 5.0)));
+        let ray = s.answer(&rules, 30.0, "A".into(), 59.0);
+        assert_eq!(ray.outcome, RayOutcome::OffPath);
+        assert_eq!(ray.outcome_word(), "leaves-through-edge");
     }
 
     #[test]
