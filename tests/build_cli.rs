@@ -610,7 +610,14 @@ fn killed_build_mixes_two_sets() {
         } else if seen == old {
             saw[0] += 1;
         } else {
-            assert_eq!(seen, new, "killed at {k}/14 of a build: neither the old set nor the new one");
+            let differ: Vec<&String> =
+                new.keys().chain(seen.keys()).filter(|f| seen.get(*f) != new.get(*f)).collect();
+            let left =
+                files_under(&dir).into_iter().filter(|f| f.starts_with(".raysheet")).collect::<Vec<_>>();
+            assert!(
+                seen == new,
+                "killed at {k}/14 of a build: neither the old set nor the new one; differing from the new set: {differ:?}; raysheet's own files there: {left:?}"
+            );
             saw[1] += 1;
         }
         // The next run finishes or rolls back, then writes the new set.

@@ -32,10 +32,10 @@ fn face(kind: u8, r: f64, a: f64) -> (String, f64) {
 }
 
 /// One valid piece and sheet of kind `kind` (0 curved-face, 1 focal, 2 block,
-/// 3 prism), from the random numbers in `v`.
+/// 3 prism, 4 index, 5 critical-angle, 6 radius), from the random numbers in `v`.
 fn piece_and_sheet(kind: u8, v: &Draw) -> String {
     let a = v.h / 2.0;
-    match kind % 4 {
+    match kind % 7 {
         0 => {
             // Flat face first, then a convex face: R ≥ a, edge ≥ 1 mm.
             let r = v.r1 * a;
@@ -49,7 +49,7 @@ fn piece_and_sheet(kind: u8, v: &Draw) -> String {
                 v.h
             )
         }
-        1 => {
+        1 | 6 => {
             // Any lens shape but flat on both sides (no focal length); edge ≥ 1 mm.
             let (fk, bk) = if v.front % 3 == 0 && v.back % 3 == 0 { (1, v.back) } else { (v.front, v.back) };
             let (front, s1) = face(fk, v.r1 * a, a);
@@ -58,9 +58,16 @@ fn piece_and_sheet(kind: u8, v: &Draw) -> String {
             format!(
                 "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = {front}\nback = {back}\n\
                  thickness_mm = {t:.3}\nheight_mm = {:.3}\n\
-                 [[sheets]]\nkind = \"focal\"\npiece = \"p\"\nenter = \"{}\"\n",
+                 [[sheets]]\n{}",
                 v.h,
-                if v.flag { "back" } else { "front" }
+                if kind % 7 == 6 {
+                    "kind = \"radius\"\npiece = \"p\"\n".to_string()
+                } else {
+                    format!(
+                        "kind = \"focal\"\npiece = \"p\"\nenter = \"{}\"\n",
+                        if v.flag { "back" } else { "front" }
+                    )
+                }
             )
         }
         2 => format!(
@@ -69,6 +76,27 @@ fn piece_and_sheet(kind: u8, v: &Draw) -> String {
             v.t.max(10.0),
             v.h.max(30.0)
         ),
+        4 | 5 => {
+            // A half-disc (thickness R, height 2R), flat face front or back;
+            // an index sheet entered at either face, a critical-angle sheet.
+            // Rounded as printed, so the height written is exactly 2R.
+            let r = (a.max(10.0) * 1000.0).round() / 1000.0;
+            let (flat, curved) = ("\"flat\"".to_string(), face(1, r, r).0);
+            let (front, back) = if v.front % 2 == 0 { (flat, curved) } else { (curved, flat) };
+            let sheet = if kind % 7 == 4 {
+                format!(
+                    "kind = \"index\"\npiece = \"p\"\nenter = \"{}\"\n",
+                    if v.flag { "flat" } else { "curved" }
+                )
+            } else {
+                "kind = \"critical-angle\"\npiece = \"p\"\n".to_string()
+            };
+            format!(
+                "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = {front}\nback = {back}\n\
+                 thickness_mm = {r:.3}\nheight_mm = {:.3}\n[[sheets]]\n{sheet}",
+                2.0 * r
+            )
+        }
         _ => {
             // A right-angle prism turns the light only when n > √2; other apexes refract.
             let apex = if v.flag && v.n > 1.45 { 90.0 } else { 30.0 + v.r1 * 6.0 };
@@ -153,7 +181,7 @@ proptest! {
     /// same), with no temporary or staging file left inside it.
     #[test]
     fn random_kits_through_the_cli_write_only_inside_the_output_folder(
-        kind in 0u8..4,
+        kind in 0u8..7,
         front in 0u8..3, back in 0u8..3,
         r1 in 1.0f64..6.0, r2 in 1.0f64..6.0,
         t in 2.0f64..60.0, h in 10.0f64..120.0, n in 1.3f64..1.9,
@@ -215,7 +243,7 @@ proptest! {
     #![proptest_config(ProptestConfig::with_cases(32))]
     #[test]
     fn random_valid_kits_of_every_kind_build_without_panicking(
-        kind in 0u8..4,
+        kind in 0u8..7,
         front in 0u8..3, back in 0u8..3,
         r1 in 1.0f64..6.0, r2 in 1.0f64..6.0,
         t in 2.0f64..60.0, h in 10.0f64..120.0, n in 1.3f64..1.9,

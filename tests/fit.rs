@@ -44,9 +44,9 @@ fn truth(text: &str, class: &ClassPlan, n: f64) -> Vec<SheetPlan> {
         .zip(answers["sheets"].as_array().unwrap())
         .map(|(p, a)| {
             let spec = &at_n.sheets[p.number - 1];
-            let values: Vec<f64> = a["rays"]
-                .as_array()
-                .unwrap()
+            // A sheet without guide rays (a radius sheet) does not depend on n.
+            let Some(rays) = a["rays"].as_array() else { return p.clone() };
+            let values: Vec<f64> = rays
                 .iter()
                 .map(|r| {
                     r.get("height_mm").or_else(|| r.get("angle_of_incidence_deg")).unwrap().as_f64().unwrap()

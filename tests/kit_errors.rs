@@ -630,6 +630,125 @@ fn curved_face_sheet_entered_from_the_curved_side_says_which_enter() {
 }
 
 #[test]
+fn index_sheet_on_a_piece_that_is_not_a_half_disc() {
+    // Issue 8: an index or critical-angle sheet needs a half-disc; the error
+    // points at the sheet's `piece` and says what a half-disc is.
+    for kind in ["index", "critical-angle"] {
+        let text = edit(
+            BASE,
+            "kind = \"focal\"\npiece = \"cx90\"",
+            &format!("kind = \"{kind}\"\npiece = \"pcx70\""),
+        );
+        // The value of `piece = "pcx70"` (the id itself first appears in the piece's own table).
+        let (line, col) = at(&text, "piece = \"pcx70\"");
+        let col = col + "piece = ".len();
+        let shown = check(
+            &error(&text),
+            Expect {
+                line,
+                col: Some(col),
+                field: "sheets[2].piece",
+                hint: &["thickness_mm = R and height_mm = 2R"],
+            },
+        );
+        assert!(
+            shown.contains("needs a half-disc; piece `pcx70` is a lens shape that is not a half-disc"),
+            "{shown}"
+        );
+    }
+}
+
+#[test]
+fn index_sheet_angle_outside_0_to_90() {
+    for bad in ["90", "-5", "120.5"] {
+        let text = edit(
+            BASE,
+            "kind = \"focal\"\npiece = \"cx90\"",
+            &format!("kind = \"index\"\npiece = \"hd33\"\nangles_deg = [10, {bad}]"),
+        );
+        let (line, col) = at(&text, &format!("{bad}]"));
+        let shown = check(
+            &error(&text),
+            Expect {
+                line,
+                col: Some(col),
+                field: "sheets[2].angles_deg[2]",
+                hint: &["from 0 up to (not including) 90 degrees"],
+            },
+        );
+        assert!(shown.contains("outside what a protractor sheet takes"), "{shown}");
+    }
+}
+
+#[test]
+fn critical_angle_sheet_enters_only_the_curved_face() {
+    let text = edit(
+        BASE,
+        "kind = \"focal\"\npiece = \"cx90\"",
+        "kind = \"critical-angle\"\npiece = \"hd33\"\nenter = \"flat\"",
+    );
+    let (line, col) = at(&text, "enter = \"flat\"");
+    let col = col + "enter = ".len();
+    check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "sheets[2].enter", hint: &["enter = \"curved\""] },
+    );
+    let text = edit(
+        BASE,
+        "kind = \"focal\"\npiece = \"cx90\"",
+        "kind = \"index\"\npiece = \"hd33\"\nenter = \"front\"",
+    );
+    let (line, col) = at(&text, "enter = \"front\"");
+    let col = col + "enter = ".len();
+    check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "sheets[2].enter", hint: &["\"curved\"", "\"flat\""] },
+    );
+}
+
+#[test]
+fn radius_sheet_on_a_piece_with_no_curved_face() {
+    // Issue 8: a radius sheet needs a curved face; `slab` is flat on both sides.
+    let text = edit(BASE, "kind = \"focal\"\npiece = \"cx90\"", "kind = \"radius\"\npiece = \"slab\"");
+    let (line, col) = at(&text, "piece = \"slab\"");
+    let col = col + "piece = ".len();
+    let shown = check(
+        &error(&text),
+        Expect {
+            line,
+            col: Some(col),
+            field: "sheets[2].piece",
+            hint: &["curve = \"convex\" or \"concave\""],
+        },
+    );
+    assert!(shown.contains("piece `slab` is a lens shape with two flat faces"), "{shown}");
+}
+
+#[test]
+fn radius_sheet_half_chord_beyond_the_piece() {
+    // cx90 is 50 mm high: a half-chord must stay under 25 mm.
+    for bad in ["25", "2", "\"wide\""] {
+        let text = edit(
+            BASE,
+            "kind = \"focal\"\npiece = \"cx90\"",
+            &format!("kind = \"radius\"\npiece = \"cx90\"\nhalf_chord_mm = {bad}"),
+        );
+        let (line, col) = at(&text, &format!("half_chord_mm = {bad}"));
+        let hint: &[&str] =
+            if bad.starts_with('"') { &["give a number"] } else { &["from 3 up to (not including) 25"] };
+        check(
+            &error(&text),
+            Expect {
+                line,
+                col: Some(col + "half_chord_mm = ".len()),
+                field: "sheets[2].half_chord_mm",
+                hint,
+            },
+        );
+    }
+}
+
+#[test]
 fn curved_face_sheet_cannot_vary_its_entry() {
     let text = edit(BASE, "heights_mm = [9, -9]", "heights_mm = [9, -9]\nvary_entry = true");
     let (line, col) = at(&text, "true");
@@ -797,7 +916,9 @@ fn bad_sheet_kind() {
             line,
             col: Some(col),
             field: "sheets[2].kind",
-            hint: &["\"curved-face\", \"focal\", \"block\" or \"prism\""],
+            hint: &[
+                "\"curved-face\", \"focal\", \"block\", \"prism\", \"index\", \"critical-angle\" or \"radius\"",
+            ],
         },
     );
 }

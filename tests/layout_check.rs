@@ -548,7 +548,12 @@ fn templates_that_run_off_the_page_when_accepted_lay_out_cleanly() {
     let mut overrides = BTreeMap::new();
     // Every sheet template and common.toml (words.toml is a different shape; the translation test edits it).
     for name in raysheet::layout::TEMPLATE_FILES.iter().filter(|n| **n != "words.toml") {
-        let text = if *name == "common.toml" { common.clone() } else { sheet.clone() };
+        let text = match *name {
+            "common.toml" => common.clone(),
+            // The index sheet's table has five columns (ray, i, r, sin i, sin r).
+            "index.toml" => sheet.replace("\"Check\"]", "\"Check\", \"sin r, the sine of the angle\"]"),
+            _ => sheet.clone(),
+        };
         overrides.insert(name.to_string(), (format!("mine/{name}"), text));
     }
     let t = Templates::with_overrides(&overrides).expect("the edited text parses");
@@ -663,6 +668,49 @@ fn random_kit(kind: u8, a: f64, b: f64, c: f64, n: f64, rays: u32, paper: &str) 
             20.0 + 40.0 * a,
             40.0 + 60.0 * b
         ),
+        // Radius: a biconvex, meniscus or plano-concave shape.
+        7 => {
+            let r = 40.0 + 80.0 * a;
+            let h = 30.0 + 40.0 * b.min(0.9) * (r / 120.0);
+            let sag = r - (r * r - h * h / 4.0).sqrt();
+            let (front, back, t) = if c < 0.4 {
+                (
+                    format!("{{ curve = \"convex\", radius_mm = {r:.1} }}"),
+                    format!("{{ curve = \"convex\", radius_mm = {:.1} }}", 1.5 * r),
+                    2.0 * sag + 3.0,
+                )
+            } else if c < 0.7 {
+                (
+                    format!("{{ curve = \"convex\", radius_mm = {r:.1} }}"),
+                    format!("{{ curve = \"concave\", radius_mm = {:.1} }}", 2.0 * r),
+                    sag + 3.0,
+                )
+            } else {
+                ("\"flat\"".to_string(), format!("{{ curve = \"concave\", radius_mm = {r:.1} }}"), 3.0)
+            };
+            format!(
+                "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = {front}\nback = {back}\nthickness_mm = {t:.1}\nheight_mm = {h:.1}\n[[sheets]]\nkind = \"radius\"\npiece = \"p\"\n"
+            )
+        }
+        // Index and critical-angle: a half-disc, flat face front or back.
+        5 | 6 => {
+            let r = 20.0 + 40.0 * a;
+            let curved = format!("{{ curve = \"convex\", radius_mm = {r:.1} }}");
+            let (front, back) =
+                if b > 0.5 { ("\"flat\"".to_string(), curved) } else { (curved, "\"flat\"".to_string()) };
+            let sheet = if kind == 5 {
+                format!(
+                    "kind = \"index\"\npiece = \"p\"\nenter = \"{}\"\n",
+                    if c > 0.5 { "flat" } else { "curved" }
+                )
+            } else {
+                "kind = \"critical-angle\"\npiece = \"p\"\n".to_string()
+            };
+            format!(
+                "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = {front}\nback = {back}\nthickness_mm = {r:.1}\nheight_mm = {:.1}\n[[sheets]]\n{sheet}",
+                2.0 * r
+            )
+        }
         _ => {
             let apex = if c > 0.7 { 90.0 } else { 40.0 + 40.0 * a };
             let enter = if c > 0.85 { "base" } else { "side" };
@@ -679,7 +727,7 @@ proptest! {
     #![proptest_config(ProptestConfig { cases: 24, max_shrink_iters: 16, ..ProptestConfig::default() })]
     #[test]
     fn random_kits_of_every_kind_lay_out_cleanly(
-        kind in 0u8..5, a in 0.0f64..1.0, b in 0.0f64..1.0, c in 0.0f64..1.0,
+        kind in 0u8..8, a in 0.0f64..1.0, b in 0.0f64..1.0, c in 0.0f64..1.0,
         n in 1.45f64..1.6, rays in 1u32..6, letter in proptest::bool::ANY,
     ) {
         let text = random_kit(kind, a, b, c, n, rays, if letter { "Letter" } else { "A4" });

@@ -161,8 +161,10 @@ impl AngleTicks {
 
     /// Places each number where it is meant to go if that is free and inside
     /// `bounds`; otherwise beside that spot, a little along the scale either
-    /// way (a guide line running through the number's tick); failing both, the
-    /// number is left out, never drawn over a line or a label.
+    /// way, or twice as far; then the same a step further out along its
+    /// tick's line, up to three steps (guide lines running through the
+    /// number's place, which spread apart outward); failing all, the number is
+    /// left out, never drawn over a line or a label.
     pub fn place_numbers(&self, placer: &mut Placer, bounds: &Rect) -> Vec<Item> {
         let mut items = Vec::new();
         for n in &self.numbers {
@@ -171,7 +173,15 @@ impl AngleTicks {
             // Aside far enough that the box clears the tick's line by 0.8 mm.
             let along = n.radial.perp();
             let shift = along.x.abs() * b.width() / 2.0 + along.y.abs() * b.height() / 2.0 + 0.8;
-            let centers = [n.center, n.center + along * shift, n.center - along * shift];
+            // Further aside, or further out (and aside there), where guides lie
+            // close together: rays through the centre spread apart outward.
+            let out = n.radial * (b.width().max(b.height()) + 0.5);
+            let centers: Vec<Point> = (0..4)
+                .flat_map(|k| {
+                    let base = n.center + out * f64::from(k);
+                    [0.0, 1.0, -1.0, 2.0, -2.0].map(|a| base + along * (a * shift))
+                })
+                .collect();
             let boxes: Vec<Rect> = centers
                 .iter()
                 .map(|c| Rect {

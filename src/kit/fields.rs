@@ -301,6 +301,17 @@ impl SheetEntry {
         }
     }
 
+    /// A number field.
+    pub fn number(&self, name: &str) -> Result<Option<Located<f64>>, KitError> {
+        match self.fields.get(name) {
+            None => Ok(None),
+            Some(f) => match &f.value {
+                Value::Number(x) => Ok(Some(Located { value: *x, at: f.value_at.clone() })),
+                _ => Err(Self::wrong_type(f, "a number", "give a number, such as 24 or 24.5")),
+            },
+        }
+    }
+
     /// A list of numbers, each with its own place.
     pub fn numbers(&self, name: &str) -> Result<Option<Located<Vec<Located<f64>>>>, KitError> {
         match self.fields.get(name) {

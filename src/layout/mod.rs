@@ -187,19 +187,59 @@ pub fn fits_one_page(p: &SheetPlan, paper: &PaperSpec) -> bool {
 
 /// How one plan's drawing is tiled on `paper` as it is turned (see
 /// [`paper_for`]): 1 × 1 when it fits a one-page sheet, else the drawing
-/// pages that follow the cover page (see [`tiles`]).
+/// pages that follow the cover page (see [`tiles`]), counted as the layout
+/// cuts them: round the labels of the drawing and its key (in the shipped words).
 pub fn tiling_on(p: &SheetPlan, paper: &PaperSpec) -> Tiling {
-    let s = p.setup();
     if fits_one_page(p, paper) {
         return Tiling { columns: 1, rows: 1 };
     }
-    let area = tiles::tiled_area(&s);
-    tiling_for(area.length(), area.height(), &tiles::tile_regions(paper).common.drawing)
+    let s = tiles::tiled_area(&p.setup());
+    let win = tiles::tile_regions(paper).common.drawing;
+    let tiling = tiling_for(s.length(), s.height(), &win);
+    let Some(t) = shipped() else { return tiling };
+    let boxes = tiled_label_boxes(p, &s, &win, tiling, &t.words);
+    let (cols, rows) = tiles::origins(&s, &win, tiling, &boxes);
+    Tiling { columns: cols.len(), rows: rows.len() }
+}
+
+/// The shipped templates, parsed once.
+fn shipped() -> Option<&'static Templates> {
+    static SHIPPED: std::sync::OnceLock<Option<Templates>> = std::sync::OnceLock::new();
+    SHIPPED.get_or_init(|| Templates::shipped().ok()).as_ref()
+}
+
+/// Where a tiled drawing's labels may go, and the text boxes of the drawing
+/// and its key there (the tiles are cut round both, so a key page lies over
+/// its sheet page).
+fn tiled_bounds(s: &crate::sheets::Setup, win: &Rect, tiling: Tiling) -> Rect {
+    // Labels stay in the tiled area; across the axis, a single row of drawing
+    // pages leaves the window's whole height (the window is centred).
+    let cy = (s.y_min + s.y_max) / 2.0;
+    let (y_lo, y_hi) = if tiling.rows == 1 {
+        (cy - win.height() / 2.0 + 1.0, cy + win.height() / 2.0 - 1.0)
+    } else {
+        (s.y_min, s.y_max)
+    };
+    Rect { min: Point::new(s.x_min, y_lo), max: Point::new(s.x_max, y_hi) }
+}
+
+fn tiled_label_boxes(
+    p: &SheetPlan,
+    s: &crate::sheets::Setup,
+    win: &Rect,
+    tiling: Tiling,
+    w: &Words,
+) -> Vec<Rect> {
+    let bounds = tiled_bounds(s, win, tiling);
+    let view = p.view();
+    let mut d: Drawing = view.student(bounds, w);
+    let key = view.key(&mut d, bounds, w);
+    d.items.iter().chain(&key).filter_map(label_box).collect()
 }
 
 /// The paper one plan is laid out on. With `orientation = "auto"` a sheet is
 /// landscape (the optical axis along the long side) unless it would need more
-/// pages than in portrait, as a tall block or prism setup can, or a landscape
+/// pages than in portrait (or as many, but only the compact layout in landscape), as a tall block or prism setup can, or a landscape
 /// page has no room for the drawing at all (A5: see [`PaperSpec::page_mm`]).
 pub fn paper_for(p: &SheetPlan, paper: &PaperSpec) -> PaperSpec {
     if paper.orientation != Orientation::Auto {
@@ -210,7 +250,14 @@ pub fn paper_for(p: &SheetPlan, paper: &PaperSpec) -> PaperSpec {
     if landscape.check().is_err() {
         return portrait;
     }
-    if pages_on(p, &portrait) < pages_on(p, &landscape) { portrait } else { paper.clone() }
+    // Fewer pages first; on a tie, the usual layout before the compact one
+    // (whose text blocks are shorter), then landscape.
+    let usual = |on: &PaperSpec| {
+        let s = p.setup();
+        tiling_for(s.length(), s.height(), &regions(on).drawing).pages() == 1
+    };
+    let rank = |on: &PaperSpec| (pages_on(p, on), !usual(on));
+    if rank(&portrait) < rank(&landscape) { portrait } else { paper.clone() }
 }
 
 /// Pages on `paper` turned as it is: one, or the cover and the drawing pages.
@@ -219,9 +266,10 @@ fn pages_on(p: &SheetPlan, paper: &PaperSpec) -> usize {
 }
 
 /// How many pages one plan's student sheet takes (the key takes as many): one,
-/// or a cover page and the drawing pages.
+/// or a cover page and the drawing pages; a gauge page (see
+/// [`crate::sheets::SheetView::has_gauge`]) comes on top.
 pub fn pages_needed(p: &SheetPlan, paper: &PaperSpec) -> usize {
-    pages_on(p, &paper_for(p, paper))
+    pages_on(p, &paper_for(p, paper)) + usize::from(p.view().has_gauge())
 }
 
 /// The student sheets and answer keys for a set of plans.
@@ -283,8 +331,52 @@ pub fn page_stem(p: &SheetPlan, role: Role) -> String {
 }
 
 /// The pages of one plan (a cover and drawing pages when tiled, see
-/// [`tiles`]), or the template text that cannot fit on this paper.
+/// [`tiles`]; then its gauge page, if it has one), or the template text that
+/// cannot fit on this paper.
 pub fn pages_for(
+    kit_title: &str,
+    p: &SheetPlan,
+    paper: &PaperSpec,
+    t: &Templates,
+    role: Role,
+) -> Result<Vec<Page>, TextFitError> {
+    let mut pages = drawing_pages(kit_title, p, paper, t, role)?;
+    if p.view().has_gauge() {
+        let paper = &paper_for(p, paper);
+        let rg = regions(paper);
+        let at = |m: Misfit| locate(m, t, paper, &rg);
+        let head = header_text(p, &rg, t).map_err(at)?;
+        let labels = scale_labels(&rg.side_block, t).map_err(at)?;
+        let foot = caution(&rg.caution, t).map_err(at)?;
+        let w = &t.words;
+        let mut items = header(kit_title, p, &rg, &head, role, None, w);
+        // The drawing's and the text block's room: above the scale bars on
+        // narrow paper (the side block under the text block), beside them on
+        // wide paper.
+        let stacked = rg.side_block.max.y <= rg.text_block.min.y + 1e-9;
+        let room = if stacked {
+            Rect { min: Point::new(rg.printable.min.x, rg.side_block.max.y + GAP_MM), max: rg.drawing.max }
+        } else {
+            Rect { min: rg.text_block.min, max: Point::new(rg.text_block.max.x, rg.drawing.max.y) }
+        };
+        items.extend(p.view().gauge(room, w));
+        let r = &rg.side_block;
+        let y = r.min.y + 6.0;
+        items.extend(across_bar(r.min.x + 1.0, y, &labels));
+        items.extend(up_bar(r.max.x - 3.0, r.min.y + 4.0, &labels));
+        items.extend(foot);
+        pages.push(Page {
+            width_mm: rg.page.0,
+            height_mm: rg.page.1,
+            name: format!("{}-gauge", page_stem(p, role)),
+            items,
+        });
+    }
+    Ok(pages)
+}
+
+/// The pages of one plan's drawing: one, or a cover and the drawing pages.
+fn drawing_pages(
     kit_title: &str,
     p: &SheetPlan,
     paper: &PaperSpec,
@@ -341,14 +433,7 @@ pub fn pages_for(
     // The drawing pages cover the setup and room round it for labels.
     let s = tiles::tiled_area(&s);
     let tiling = tiling_for(s.length(), s.height(), &win);
-    // Labels stay in that area; across the axis, a single row of drawing
-    // pages leaves the window's whole height (the window is centred).
-    let (y_lo, y_hi) = if tiling.rows == 1 {
-        (cy - win.height() / 2.0 + 1.0, cy + win.height() / 2.0 - 1.0)
-    } else {
-        (s.y_min, s.y_max)
-    };
-    let bounds = Rect { min: Point::new(s.x_min, y_lo), max: Point::new(s.x_max, y_hi) };
+    let bounds = tiled_bounds(&s, &win, tiling);
     let mut d: Drawing = view.student(bounds, w);
     let mut items = std::mem::take(&mut d.items);
     let key_items = view.key(&mut d, bounds, w);
@@ -1041,6 +1126,8 @@ fn side_block_rest(
     let upper = Rect { min: Point::new(r.min.x, y + 8.0), max: Point::new(right, r.max.y) };
     if role == Role::Key && upper.height() > 20.0 {
         out.extend(p.view().key_plot(upper, w));
+    } else if role == Role::Student && upper.height() > 20.0 && !p.view().student_plot(upper, w).is_empty() {
+        out.extend(p.view().student_plot(upper, w));
     } else if role == Role::Student
         && let Some(msg) = p.view().student_note(w)
     {

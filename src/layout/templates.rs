@@ -76,6 +76,9 @@ const SHIPPED: &[(&str, &str)] = &[
     ("block.toml", include_str!("../../templates/block.toml")),
     ("prism.toml", include_str!("../../templates/prism.toml")),
     ("prism-turn.toml", include_str!("../../templates/prism-turn.toml")),
+    ("index.toml", include_str!("../../templates/index.toml")),
+    ("critical-angle.toml", include_str!("../../templates/critical-angle.toml")),
+    ("radius.toml", include_str!("../../templates/radius.toml")),
     ("common.toml", include_str!("../../templates/common.toml")),
     ("words.toml", crate::draw::words::SHIPPED),
 ];
@@ -88,6 +91,9 @@ pub const FILES: &[&str] = &[
     "block.toml",
     "prism.toml",
     "prism-turn.toml",
+    "index.toml",
+    "critical-angle.toml",
+    "radius.toml",
     "common.toml",
     "words.toml",
 ];
@@ -188,7 +194,15 @@ struct RawCommon {
     scale_hint: Spanned<String>,
 }
 
-fn check_sheet(src: &Source<'_>) -> Result<SheetText, String> {
+/// Columns of a sheet template's measurement table: as many as its shipped
+/// file has (four for most kinds), since the kind fills that many cells a row.
+fn shipped_columns(name: &str) -> usize {
+    shipped_text(name)
+        .and_then(|t| toml::from_str::<RawSheet>(t).ok())
+        .map_or(4, |r| r.columns.get_ref().len())
+}
+
+fn check_sheet(src: &Source<'_>, want_columns: usize) -> Result<SheetText, String> {
     let t: RawSheet = src.parse()?;
     src.printable(&t.heading, "heading")?;
     let lines = t.instructions.get_ref();
@@ -203,11 +217,11 @@ fn check_sheet(src: &Source<'_>) -> Result<SheetText, String> {
         src.printable(l, &format!("instructions[{}]", i + 1))?;
     }
     let columns = t.columns.get_ref();
-    if columns.len() != 4 {
+    if columns.len() != want_columns {
         return Err(src.error(
             &t.columns.span(),
             "columns",
-            &format!("the measurement table has 4 columns; {} were given", columns.len()),
+            &format!("the measurement table has {want_columns} columns; {} were given", columns.len()),
         ));
     }
     for (i, c) in columns.iter().enumerate() {
@@ -343,7 +357,7 @@ impl Templates {
     /// The shipped templates with some files replaced: `overrides` maps a file
     /// name from [`FILES`] to (the path to show in messages, its text). Each
     /// file is checked: TOML syntax and fields, printable text, at most
-    /// [`MAX_INSTRUCTIONS`] instruction lines, four table columns. Every error
+    /// [`MAX_INSTRUCTIONS`] instruction lines, as many table columns as the shipped file. Every error
     /// names the file, line, column and field, on one line.
     pub fn with_overrides(
         overrides: &std::collections::BTreeMap<String, (String, String)>,
@@ -359,7 +373,7 @@ impl Templates {
         let mut sheets = std::collections::BTreeMap::new();
         for name in FILES.iter().filter(|n| !["common.toml", WORDS_FILE].contains(*n)) {
             let (shown, text) = get(name);
-            sheets.insert(*name, check_sheet(&Source { shown: &shown, text: &text })?);
+            sheets.insert(*name, check_sheet(&Source { shown: &shown, text: &text }, shipped_columns(name))?);
         }
         let (shown, text) = get(WORDS_FILE);
         let (words, word_places) = check_words(&Source { shown: &shown, text: &text })?;
@@ -496,7 +510,9 @@ mod tests {
         let t = super::Templates::shipped().unwrap();
         for name in super::FILES.iter().filter(|n| !["common.toml", "words.toml"].contains(*n)) {
             assert!(!t.sheet(name).instructions.is_empty(), "{name}");
-            assert_eq!(t.sheet(name).columns.len(), 4, "{name}");
+            // Four columns, five on the index sheet (ray, i, r, sin i, sin r).
+            let want = if *name == "index.toml" { 5 } else { 4 };
+            assert_eq!(t.sheet(name).columns.len(), want, "{name}");
         }
     }
 }

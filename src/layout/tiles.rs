@@ -72,7 +72,8 @@ pub fn tile_regions(paper: &PaperSpec) -> TileRegions {
 /// `window` cover `[min, min + length]`, spread evenly (every overlap the
 /// same, at least [`TILE_OVERLAP_MM`]), then each start moved back, where it
 /// can be, so that no label span in `labels` is cut by both neighbouring
-/// windows. More windows are used when moving back leaves the end uncovered.
+/// windows. More windows are used when moving back leaves the end uncovered
+/// (`pages_needed` counts them the same way, from the same labels).
 pub fn starts(min: f64, length: f64, window: f64, n: usize, labels: &[(f64, f64)]) -> Vec<f64> {
     if n <= 1 {
         return vec![min];

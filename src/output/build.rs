@@ -132,7 +132,7 @@ pub fn corrected(scene: Scene, printer: Option<PrinterCorrection>, margin_mm: f6
 fn check_pages<'a>(plans: impl Iterator<Item = &'a SheetPlan>, paper: &PaperSpec) -> Result<(), BuildError> {
     let mut total: usize = 0;
     for p in plans {
-        let n = layout::pages_needed(p, paper);
+        let n = layout::pages_needed(p, paper).saturating_add(usize::from(p.view().has_gauge()));
         if n > MAX_SHEET_PAGES {
             return Err(BuildError::TooLarge(format!(
                 "sheet {} would be tiled over {n} pages, more than the {MAX_SHEET_PAGES} pages raysheet prints for one sheet; check the piece's sizes, its curves and the ray box, or use larger paper",

@@ -79,6 +79,10 @@ pub fn fit(
                 piece.id
             )));
         }
+        // A sheet without guide rays (a radius sheet) measures shapes, not the index.
+        if s["rays"].as_array().is_none() {
+            continue;
+        }
         let enter = match s["enter"].as_str() {
             Some("front") => Enter::Front,
             Some("back") => Enter::Back,

@@ -134,13 +134,17 @@ pub fn sheet_pages<'a>(
     worst
         .into_iter()
         .map(|(number, (pages, p))| {
-            if pages <= 1 {
-                return (number, (pages, format!("one page ({})", turned(p, paper))));
+            let has_gauge = p.view().has_gauge();
+            let gauge = if has_gauge { ", and its gauge page" } else { "" };
+            if layout::fits_one_page(p, &layout::paper_for(p, paper)) {
+                return (number, (pages, format!("one page ({}){gauge}", turned(p, paper))));
             }
+            // The drawing's pages and the cover, without the gauge page.
+            let pages_tiled = pages - usize::from(has_gauge);
             let t = layout::tiling_on(p, &layout::paper_for(p, paper));
             let setup = p.setup();
             let mut s = format!(
-                "tiled over {pages} pages (the text on page 1, the drawing on {} pages, {} across × {} down, {}) for a setup {:.0} × {:.0} mm; ",
+                "tiled over {pages_tiled} pages (the text on page 1, the drawing on {} pages, {} across × {} down, {}) for a setup {:.0} × {:.0} mm; ",
                 t.pages(),
                 t.columns,
                 t.rows,
@@ -162,13 +166,14 @@ pub fn sheet_pages<'a>(
             let fits = named
                 .into_iter()
                 .map(|size| PaperSpec { size, orientation: Orientation::Auto, ..paper.clone() })
-                .find(|on| on.check().is_ok() && layout::pages_needed(p, on) == 1);
+                .find(|on| on.check().is_ok() && layout::fits_one_page(p, &layout::paper_for(p, on)));
             match fits {
                 Some(on) => s.push_str(&format!("one page of {} ({}) holds it", on.size.name, turned(p, &on))),
                 None => s.push_str(
                     "no listed paper holds it on one page (give a larger --paper WIDTHxHEIGHT, or tape the pages together at the join marks)",
                 ),
             }
+            s.push_str(gauge);
             (number, (pages, s))
         })
         .collect()

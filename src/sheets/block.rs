@@ -268,8 +268,8 @@ impl SheetView for BlockPlan {
     fn entry_words(&self, w: &Words) -> String {
         w.fill("entry_block", &[("length", &crate::plan::fmt_mm(self.block.height_mm))])
     }
-    fn table_widths(&self) -> [f64; 4] {
-        [0.09, 0.21, 0.35, 0.35]
+    fn table_widths(&self) -> Vec<f64> {
+        vec![0.09, 0.21, 0.35, 0.35]
     }
     fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>> {
         self.plan

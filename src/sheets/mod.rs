@@ -15,8 +15,13 @@ pub mod angled_view;
 pub mod block;
 mod class;
 pub mod deviation_plot;
+pub mod index;
 pub mod lens;
 pub mod prism;
+pub mod protractor;
+pub mod protractor_drawing;
+pub mod radius;
+pub mod radius_drawing;
 mod spec;
 
 pub use class::{ClassPlan, plan_class};
@@ -38,12 +43,25 @@ pub enum SheetKind {
     Block,
     /// Deviation through a prism; turning by total reflection in a right-angle prism.
     Prism,
+    /// Index of refraction: a half-disc at a printed protractor.
+    Index,
+    /// Rays either side of the critical angle at a half-disc's flat face.
+    CriticalAngle,
+    /// A lens shape's radii of curvature from a traced chord and sagitta.
+    Radius,
 }
 
 impl SheetKind {
     /// Every kind, in the order the README lists them.
-    pub const ALL: [SheetKind; 4] =
-        [SheetKind::CurvedFace, SheetKind::Focal, SheetKind::Block, SheetKind::Prism];
+    pub const ALL: [SheetKind; 7] = [
+        SheetKind::CurvedFace,
+        SheetKind::Focal,
+        SheetKind::Block,
+        SheetKind::Prism,
+        SheetKind::Index,
+        SheetKind::CriticalAngle,
+        SheetKind::Radius,
+    ];
 
     /// The module that implements the kind.
     pub fn def(self) -> &'static dyn Kind {
@@ -52,6 +70,9 @@ impl SheetKind {
             SheetKind::Focal => &lens::FOCAL,
             SheetKind::Block => &block::KIND,
             SheetKind::Prism => &prism::KIND,
+            SheetKind::Index => &index::INDEX,
+            SheetKind::CriticalAngle => &index::CRITICAL,
+            SheetKind::Radius => &radius::KIND,
         }
     }
 
@@ -159,6 +180,10 @@ pub enum Detail {
     Block(Box<block::BlockPlan>),
     /// Prism sheets.
     Prism(Box<prism::PrismPlan>),
+    /// Index and critical-angle sheets.
+    Protractor(Box<index::ProtractorView>),
+    /// Radius sheets.
+    Radius(Box<radius::RadiusView>),
 }
 
 impl Detail {
@@ -168,6 +193,8 @@ impl Detail {
             Detail::Lens(p) => p.as_ref(),
             Detail::Block(p) => p.as_ref(),
             Detail::Prism(p) => p.as_ref(),
+            Detail::Protractor(p) => p.as_ref(),
+            Detail::Radius(p) => p.as_ref(),
         }
     }
 }
@@ -237,9 +264,9 @@ pub trait SheetView {
     /// The measurement table's rows, in letter order: every column filled on
     /// the key, only the given values (letter, setting) on the student sheet.
     fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>>;
-    /// The four columns' shares of the table's width.
-    fn table_widths(&self) -> [f64; 4] {
-        [0.09, 0.17, 0.47, 0.27]
+    /// The columns' shares of the table's width, one per column of its template.
+    fn table_widths(&self) -> Vec<f64> {
+        vec![0.09, 0.17, 0.47, 0.27]
     }
     /// The key's text: exact values, accept ranges and the safe band's reasons.
     fn key_lines(&self, w: &Words) -> Vec<String>;
@@ -247,6 +274,20 @@ pub trait SheetView {
     fn key_plot(&self, rect: Rect, w: &Words) -> Vec<Item>;
     /// A line for the student to fill in under the table, if any.
     fn student_note(&self, w: &Words) -> Option<String>;
+    /// A blank plot for the student to fill in, in `rect` (page mm), where
+    /// the key has its plot; empty when the kind has none (the student note
+    /// goes there then).
+    fn student_plot(&self, _rect: Rect, _w: &Words) -> Vec<Item> {
+        Vec::new()
+    }
+    /// Whether the sheet (and its key) has a gauge page after its drawing.
+    fn has_gauge(&self) -> bool {
+        false
+    }
+    /// The gauge page's drawing in `rect` (page mm), when the sheet has one.
+    fn gauge(&self, _rect: Rect, _w: &Words) -> Vec<Item> {
+        Vec::new()
+    }
     /// The kind's part of the answer file, as a JSON object.
     fn answers(&self) -> serde_json::Value;
     /// The class summary's rows, one per guide ray in letter order.

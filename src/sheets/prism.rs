@@ -436,8 +436,8 @@ impl SheetView for PrismPlan {
         }
         .to_string()
     }
-    fn table_widths(&self) -> [f64; 4] {
-        [0.09, 0.21, 0.35, 0.35]
+    fn table_widths(&self) -> Vec<f64> {
+        vec![0.09, 0.21, 0.35, 0.35]
     }
     fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>> {
         self.plan

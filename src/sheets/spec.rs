@@ -15,6 +15,10 @@ pub enum Enter {
     Side,
     /// A right-angle prism's base (hypotenuse).
     Base,
+    /// A half-disc's curved face (index and critical-angle sheets).
+    Curved,
+    /// A half-disc's flat face, at its centre (index sheets).
+    Flat,
 }
 
 impl Enter {
@@ -25,6 +29,8 @@ impl Enter {
             Enter::Back => "back",
             Enter::Side => "side",
             Enter::Base => "base",
+            Enter::Curved => "curved",
+            Enter::Flat => "flat",
         }
     }
 }

@@ -254,8 +254,8 @@ impl SheetView for LensPlan {
         .to_string()
     }
 
-    fn table_widths(&self) -> [f64; 4] {
-        [0.08, 0.14, 0.39, 0.39]
+    fn table_widths(&self) -> Vec<f64> {
+        vec![0.08, 0.14, 0.39, 0.39]
     }
 
     fn table_rows(&self, key: bool, w: &Words) -> Vec<Vec<String>> {
