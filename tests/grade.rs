@@ -138,13 +138,22 @@ fn a_kit_edited_after_the_build_changes_no_mark() {
         }),
     )
     .unwrap();
-    assert_code(&raysheet(&["grade", "build/results.csv", "--out", "marks"], dir), 0);
+    let out = raysheet(&["grade", "build/results.csv", "--out", "marks", "--kit", "kit.toml"], dir);
+    assert_code(&out, 0);
+    assert!(!text(&out.stderr).contains("has changed"), "{}", text(&out.stderr));
     let before = std::fs::read(dir.join("marks/grades.csv")).unwrap();
     // The acrylic's index edited in the kit: the marks come from the build's answers.
     let edited = std::fs::read_to_string(&kit).unwrap().replace("index = 1.49", "index = 1.52");
     assert_ne!(edited, std::fs::read_to_string(&kit).unwrap());
     std::fs::write(&kit, edited).unwrap();
-    assert_code(&raysheet(&["grade", "build/results.csv", "--out", "marks"], dir), 0);
+    let out = raysheet(&["grade", "build/results.csv", "--out", "marks", "--kit", "kit.toml"], dir);
+    assert_code(&out, 0);
+    // The build's answer file records the kit's SHA-256: the change is said, the marks stay.
+    assert!(
+        text(&out.stderr).contains("kit.toml: the kit has changed since the build"),
+        "{}",
+        text(&out.stderr)
+    );
     assert_eq!(std::fs::read(dir.join("marks/grades.csv")).unwrap(), before);
 }
 

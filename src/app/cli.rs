@@ -84,6 +84,9 @@ pub enum Command {
         /// The build's answer file (default: answers.json beside the results file).
         #[arg(long, value_name = "FILE")]
         answers: Option<PathBuf>,
+        /// The kit file: a warning if it changed since the build (the marks never change).
+        #[arg(long, value_name = "FILE")]
+        kit: Option<PathBuf>,
         /// Overwrite files in the output folder that raysheet did not write.
         #[arg(long)]
         force: bool,

@@ -88,11 +88,11 @@ pub fn wanted(command: &Command) -> Wanted {
                 .unwrap_or_else(|| results.parent().unwrap_or(std::path::Path::new("")).join("answers.json"));
             Wanted { kit: Some(kit.clone()), marking: Some((results.clone(), answers)), ..Wanted::default() }
         }
-        Command::Grade { results, answers, .. } => {
+        Command::Grade { results, answers, kit, .. } => {
             let answers = answers
                 .clone()
                 .unwrap_or_else(|| results.parent().unwrap_or(std::path::Path::new("")).join("answers.json"));
-            Wanted { marking: Some((results.clone(), answers)), ..Wanted::default() }
+            Wanted { kit: kit.clone(), marking: Some((results.clone(), answers)), ..Wanted::default() }
         }
         Command::Demo { out, class, .. } => {
             Wanted { kit: None, roster: class.roster.clone(), templates: templates(out), marking: None }
@@ -203,6 +203,8 @@ pub enum Job {
         answers: String,
         /// Its name, for messages.
         answers_file: String,
+        /// `--kit`: its name and the SHA-256 of its bytes.
+        kit: Option<(String, String)>,
         /// The folder to write grades.csv into.
         dir: PathBuf,
         /// Overwrite files there that raysheet did not write.
@@ -269,7 +271,21 @@ impl Job {
                 };
                 let (results_file, results) = marking_text(results)?;
                 let (answers_file, answers) = marking_text(answers)?;
-                Ok(Job::Grade { results, results_file, answers, answers_file, dir: out, force })
+                // The kit given with --kit, as its file name and the SHA-256 of its bytes.
+                let kit = match inputs.kit {
+                    None => None,
+                    Some(k) => {
+                        let name = k.path.display().to_string();
+                        let bytes =
+                            k.content.map_err(|e| Failure::Input(format!("{name}: cannot read: {e}")))?;
+                        use sha2::Digest;
+                        Some((
+                            name,
+                            sha2::Sha256::digest(&bytes).iter().map(|b| format!("{b:02x}")).collect(),
+                        ))
+                    }
+                };
+                Ok(Job::Grade { results, results_file, answers, answers_file, kit, dir: out, force })
             }
             Command::Demo { print_kit: true, .. } => Ok(Job::PrintDemoKit),
             Command::Materials => Ok(Job::ListMaterials),

@@ -150,9 +150,19 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
                 crate::output::fit::fit_text(&fits)
             }))
         }
-        Job::Grade { results, results_file, answers: answers_text, answers_file, dir, force } => {
-            let g = crate::output::grade::grade(&results, &results_file, &answers_text, &answers_file)
+        Job::Grade { results, results_file, answers: answers_text, answers_file, kit, dir, force } => {
+            let mut g = crate::output::grade::grade(&results, &results_file, &answers_text, &answers_file)
                 .map_err(|e| Failure::Input(e.to_string()))?;
+            let built = serde_json::from_str::<serde_json::Value>(&answers_text)
+                .ok()
+                .and_then(|v| v["kit_sha256"].as_str().map(str::to_string));
+            if let (Some((name, now)), Some(built)) = (kit, built)
+                && now != built
+            {
+                g.warnings.push(format!(
+                    "{name}: the kit has changed since the build that wrote {answers_file}; the marks come from that build's answers, so they do not change (build again for new sheets)"
+                ));
+            }
             let mut overview =
                 String::from("group: answers within tolerance / answers measured (answers asked)\n");
             for (group, within, measured, asked) in &g.groups {
@@ -254,7 +264,7 @@ fn solve(
         Some(cp) => (cp.plans.into_iter().flatten().collect(), cp.notes, Some(cp.seed)),
     };
     if json {
-        return answers::to_json(&kit.title, seed, &plans);
+        return answers::to_json_for(kit, seed, &plans);
     }
     let mut out = format!("{}\n", kit.title);
     for n in &notes {

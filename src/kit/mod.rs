@@ -160,6 +160,9 @@ pub struct Kit {
     pub class: ClassSpec,
     /// The printer's measured stretch (`[printer]`), if the teacher gave it.
     pub printer: Option<crate::paper::PrinterCorrection>,
+    /// SHA-256 of the kit file's text, hex: the answer file records it, so
+    /// marking can tell a kit changed after the build.
+    pub source_sha256: String,
 }
 
 impl Kit {
@@ -404,7 +407,11 @@ impl Validator<'_> {
                 })
             }
         };
-        Ok(Kit { title, materials, ray_box, pieces, sheets, paper, class, printer })
+        let source_sha256 = {
+            use sha2::Digest;
+            sha2::Sha256::digest(self.loc.text.as_bytes()).iter().map(|b| format!("{b:02x}")).collect()
+        };
+        Ok(Kit { title, materials, ray_box, pieces, sheets, paper, class, printer, source_sha256 })
     }
 
     /// One `[materials.NAME]` table: exactly one of `index`, `sellmeier` and

@@ -13,6 +13,16 @@ pub const FORMAT: u32 = 1;
 /// The answer file for `plans` as pretty JSON (fields in a fixed order, lengths
 /// in mm and angles in degrees, unrounded).
 pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> String {
+    to_json_with(kit_title, None, seed, plans)
+}
+
+/// [`to_json`] for a build from `kit`: it also records the SHA-256 of the kit
+/// file's text (`kit_sha256`), so marking can tell when the kit was changed since.
+pub fn to_json_for(kit: &crate::kit::Kit, seed: Option<u64>, plans: &[SheetPlan]) -> String {
+    to_json_with(&kit.title, Some(&kit.source_sha256), seed, plans)
+}
+
+fn to_json_with(kit_title: &str, kit_sha256: Option<&str>, seed: Option<u64>, plans: &[SheetPlan]) -> String {
     let sheets: Vec<Value> = plans
         .iter()
         .map(|p| {
@@ -44,7 +54,18 @@ pub fn to_json(kit_title: &str, seed: Option<u64>, plans: &[SheetPlan]) -> Strin
             Value::Object(m)
         })
         .collect();
-    let file = json!({ "format": FORMAT, "kit": kit_title, "seed": seed, "sheets": sheets });
+    let mut file = json!({ "format": FORMAT, "kit": kit_title, "seed": seed, "sheets": sheets });
+    if let (Some(h), Value::Object(m)) = (kit_sha256, &mut file) {
+        // After the title, in the file's fixed order.
+        let rest: Vec<(String, Value)> = std::mem::take(m).into_iter().collect();
+        for (k, v) in rest {
+            let title = k == "kit";
+            m.insert(k, v);
+            if title {
+                m.insert("kit_sha256".into(), json!(h));
+            }
+        }
+    }
     let mut s = serde_json::to_string_pretty(&file).unwrap_or_else(|e| format!("{{\"error\": \"{e}\"}}"));
     s.push('\n');
     s

@@ -206,7 +206,7 @@ pub fn build_plans_with(
     scene_files(&set.keys, "", "keys.pdf", formats, &mut out)?;
     out.push(Output {
         path: "answers.json".into(),
-        bytes: answers::to_json(&kit.title, seed, plans).into_bytes(),
+        bytes: answers::to_json_for(kit, seed, plans).into_bytes(),
     });
     out.push(Output { path: "results.csv".into(), bytes: results::results_csv(plans).into_bytes() });
     Ok(out)
@@ -282,7 +282,7 @@ pub fn build_class_with(
     out.push(Output { path: "results.csv".into(), bytes: results::results_csv(&flat).into_bytes() });
     out.push(Output {
         path: "answers.json".into(),
-        bytes: answers::to_json(&kit.title, Some(class.seed), &flat).into_bytes(),
+        bytes: answers::to_json_for(kit, Some(class.seed), &flat).into_bytes(),
     });
     Ok(out)
 }
