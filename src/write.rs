@@ -25,8 +25,8 @@ use std::hash::{BuildHasher, Hasher};
 use std::io::Write;
 use std::path::{Component, Path, PathBuf};
 
+use raysheet::kit::sha256_hex;
 use raysheet::output::Output;
-use sha2::{Digest, Sha256};
 
 /// The list of files raysheet wrote into a folder, with their SHA-256.
 pub const MANIFEST: &str = ".raysheet-files";
@@ -65,10 +65,6 @@ fn io(path: &Path, what: &str, e: std::io::Error) -> WriteError {
 /// Whether `path` itself is a symbolic link (not followed).
 fn is_link(path: &Path) -> bool {
     fs::symlink_metadata(path).is_ok_and(|m| m.file_type().is_symlink())
-}
-
-fn sha256_hex(bytes: &[u8]) -> String {
-    Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
 }
 
 /// A file's SHA-256 as it is on disk now; `None` when it is not a regular file

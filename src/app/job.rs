@@ -278,11 +278,7 @@ impl Job {
                         let name = k.path.display().to_string();
                         let bytes =
                             k.content.map_err(|e| Failure::Input(format!("{name}: cannot read: {e}")))?;
-                        use sha2::Digest;
-                        Some((
-                            name,
-                            sha2::Sha256::digest(&bytes).iter().map(|b| format!("{b:02x}")).collect(),
-                        ))
+                        Some((name, crate::kit::sha256_hex(&bytes)))
                     }
                 };
                 Ok(Job::Grade { results, results_file, answers, answers_file, kit, dir: out, force })

@@ -165,6 +165,13 @@ pub struct Kit {
     pub source_sha256: String,
 }
 
+/// The SHA-256 of `bytes` as 64 lower-case hex digits (the kit's record in
+/// the answer file, and the output folder's list of files).
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    use sha2::Digest;
+    sha2::Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
+}
+
 impl Kit {
     /// Parses and validates kit text. `file` is the name used in messages.
     pub fn from_toml(text: &str, file: &str) -> Result<Kit, KitError> {
@@ -407,10 +414,7 @@ impl Validator<'_> {
                 })
             }
         };
-        let source_sha256 = {
-            use sha2::Digest;
-            sha2::Sha256::digest(self.loc.text.as_bytes()).iter().map(|b| format!("{b:02x}")).collect()
-        };
+        let source_sha256 = sha256_hex(self.loc.text.as_bytes());
         Ok(Kit { title, materials, ray_box, pieces, sheets, paper, class, printer, source_sha256 })
     }
 
