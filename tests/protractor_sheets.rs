@@ -302,3 +302,26 @@ fn fixed_angles_that_are_hard_to_set_up_are_warned_about() {
     // 42° is within the aiming error of θc = 42.16° (n = 1.49): not graded, and said so.
     assert!(w(2).contains("ray A at 42°: within the aiming error of the critical angle (42.2°)"), "{}", w(2));
 }
+
+#[test]
+fn the_keys_accept_ranges_name_the_aiming_error_of_the_staggered_guides_too() {
+    // 20°, 23° and 26° are closer than the crowding limit, so the second and
+    // third guides start further out: their aiming error is smaller.
+    let l = kit("[[sheets]]\nkind = \"index\"\npiece = \"hd149\"\nangles_deg = [20, 23, 26, 50]\n");
+    let plans = plan_lesson(&l, &l.paper);
+    let a = answers(&l);
+    let rays = a["sheets"][0]["rays"].as_array().unwrap();
+    let aims: Vec<f64> = rays.iter().map(|r| r["tolerance_parts_deg"]["aiming"].as_f64().unwrap()).collect();
+    let (lo, hi) = aims.iter().fold((f64::INFINITY, 0.0f64), |(l, h), a| (l.min(*a), h.max(*a)));
+    assert!(hi - lo > 0.05, "the guides are staggered: {aims:?}");
+    let w = raysheet::draw::Words::shipped();
+    let lines = plans[0].view().key_lines(&w).join("\n");
+    // The text gives the range the rays' accept ranges use, not one value.
+    let range = format!("{:.1}°–{:.1}°", lo, hi);
+    assert!(lines.contains(&range), "{range} in:\n{lines}");
+    // The aiming error is atan(slip / guide length) (our tolerance model,
+    // issue 8): the longest guide follows from the smallest error.
+    let slip = 1.0; // half the default 2 mm ray width
+    let long = slip / lo.to_radians().tan();
+    assert!(lines.contains("mm on guides ") && lines.contains(&format!("–{:.1} mm long", long)), "{lines}");
+}

@@ -141,8 +141,67 @@ fn the_gauge_spans_the_kits_radii_in_equal_steps_of_curvature() {
             "{label} printed"
         );
     }
-    // The key has the same gauge page.
+    // The key has a gauge page too.
     assert!(set.keys.pages.iter().any(|p| p.name == "key-01-gauge"));
+}
+
+/// Every arc on a page: (centre x, centre y, radius), mm.
+fn arcs_of(items: &[Item]) -> Vec<(f64, f64, f64)> {
+    items
+        .iter()
+        .filter_map(|i| match i {
+            Item::Arc { center, radius_mm, .. } => Some((center.x, center.y, *radius_mm)),
+            _ => None,
+        })
+        .collect()
+}
+
+#[test]
+fn the_keys_gauge_page_lays_over_the_students_and_names_the_arcs_each_face_lies_between() {
+    let l = lesson();
+    let plans = plan_lesson(&l, &l.paper);
+    let set = layout::layout(&l.title, &plans, &l.paper, &Templates::shipped().unwrap()).unwrap();
+    let page = |pages: &[raysheet::scene::Page], name: &str| {
+        pages.iter().find(|p| p.name == name).unwrap().items.clone()
+    };
+    // The meniscus (sheet 1): front convex R = 60, back concave R = 110.
+    let student = arcs_of(&page(&set.sheets.pages, "sheet-01-gauge"));
+    let key = arcs_of(&page(&set.keys.pages, "key-01-gauge"));
+    // Same gauge arcs at the same coordinates, so the key overlays the page.
+    assert_eq!(&key[..student.len()], &student[..]);
+    // The key adds one arc per curved face, at the face's radius, through
+    // the same vertex (centre x − R is the vertex's x).
+    let vertex_x = student[0].0 - student[0].2;
+    let extra = &key[student.len()..];
+    assert_eq!(extra.len(), 2, "{extra:?}");
+    for (r, a) in [60.0, 110.0].iter().zip(extra) {
+        close(a.2, *r, 1e-12, "face arc radius");
+        close(a.0 - a.2, vertex_x, 1e-9, "face arc through the vertex");
+    }
+    // Its words name the neighbouring gauge arcs, which bracket the radius.
+    let texts: Vec<String> = page(&set.keys.pages, "key-01-gauge")
+        .iter()
+        .filter_map(|i| match i {
+            Item::Text { text, .. } => Some(text.clone()),
+            _ => None,
+        })
+        .collect();
+    let radii: Vec<f64> = student.iter().map(|a| a.2).collect();
+    for r in [60.0f64, 110.0] {
+        let line =
+            texts.iter().find(|t| t.contains(&format!("R = {r:.1} mm"))).expect("a line for each face");
+        let named: Vec<f64> =
+            line.split(|c: char| !c.is_ascii_digit()).filter_map(|w| w.parse::<f64>().ok()).collect();
+        let lower = radii.iter().copied().filter(|g| *g < r).fold(0.0, f64::max);
+        let upper = radii.iter().copied().filter(|g| *g > r).fold(f64::INFINITY, f64::min);
+        assert!(named.contains(&lower) && named.contains(&upper), "{line}: {lower} and {upper}");
+    }
+    // The student's page says nothing of the faces.
+    assert!(
+        !page(&set.sheets.pages, "sheet-01-gauge")
+            .iter()
+            .any(|i| matches!(i, Item::Text { text, .. } if text.contains("R = ")))
+    );
 }
 
 #[test]

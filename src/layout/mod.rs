@@ -359,7 +359,7 @@ pub fn pages_for(
         } else {
             Rect { min: rg.text_block.min, max: Point::new(rg.text_block.max.x, rg.drawing.max.y) }
         };
-        items.extend(p.view().gauge(room, w));
+        items.extend(p.view().gauge(room, role == Role::Key, w));
         let r = &rg.side_block;
         let y = r.min.y + 6.0;
         items.extend(across_bar(r.min.x + 1.0, y, &labels));

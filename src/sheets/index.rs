@@ -534,6 +534,25 @@ impl SheetView for ProtractorView {
         }
         let t = s.tolerance(&p.rules, RayOutcome::TotalReflection, 0.0, None, s.lead_mm);
         let e = p.rules.across_error_mm();
+        // Staggered guides are longer, so their aiming error is smaller: the
+        // line gives the range the rays' own accept ranges use.
+        let aims = p.rays.iter().map(|r| r.tolerance.aim_deg);
+        let (lo, hi) = aims.fold((t.aim_deg, t.aim_deg), |(lo, hi), a| (lo.min(a), hi.max(a)));
+        let long_mm = e / lo.to_radians().tan();
+        let aiming = if fmt1(lo) == fmt1(hi) {
+            w.fill("index_aim_one", &[("aim", &fmt1(hi)), ("slip", &fmt1(e)), ("lead", &fmt1(s.lead_mm))])
+        } else {
+            w.fill(
+                "index_aim_range",
+                &[
+                    ("low", &fmt1(lo)),
+                    ("high", &fmt1(hi)),
+                    ("slip", &fmt1(e)),
+                    ("short", &fmt1(s.lead_mm)),
+                    ("long", &fmt1(long_mm)),
+                ],
+            )
+        };
         v.push(w.fill(
             "index_accept",
             &[
@@ -541,8 +560,7 @@ impl SheetView for ProtractorView {
                 ("line", &fmt1(t.line_deg)),
                 ("slip", &fmt1(e)),
                 ("radius", &fmt1(s.scale_radius_mm)),
-                ("aim", &fmt1(t.aim_deg)),
-                ("lead", &fmt1(s.lead_mm)),
+                ("aiming", &aiming),
             ],
         ));
         v.push(w.say("protractor_laser").to_string());

@@ -284,8 +284,9 @@ pub trait SheetView {
     fn has_gauge(&self) -> bool {
         false
     }
-    /// The gauge page's drawing in `rect` (page mm), when the sheet has one.
-    fn gauge(&self, _rect: Rect, _w: &Words) -> Vec<Item> {
+    /// The gauge page's drawing in `rect` (page mm), when the sheet has one;
+    /// `key` adds the answers (the key's gauge page).
+    fn gauge(&self, _rect: Rect, _key: bool, _w: &Words) -> Vec<Item> {
         Vec::new()
     }
     /// The kind's part of the answer file, as a JSON object.

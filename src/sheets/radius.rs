@@ -426,8 +426,15 @@ impl SheetView for RadiusView {
     fn has_gauge(&self) -> bool {
         !self.gauge_radii.is_empty()
     }
-    fn gauge(&self, rect: Rect, w: &Words) -> Vec<Item> {
-        super::radius_drawing::gauge(&self.gauge_radii, self.lens.half_height_mm(), rect, w)
+    fn gauge(&self, rect: Rect, key: bool, w: &Words) -> Vec<Item> {
+        let faces: Vec<(&str, f64)> = self
+            .faces
+            .iter()
+            .map(|f| {
+                (if f.face == "front" { w.say("entry_front") } else { w.say("entry_back") }, f.radius_mm)
+            })
+            .collect();
+        super::radius_drawing::gauge(&self.gauge_radii, self.lens.half_height_mm(), &faces, key, rect, w)
     }
     fn answers(&self) -> Value {
         let faces: Vec<Value> = self

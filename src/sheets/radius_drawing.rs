@@ -147,7 +147,20 @@ pub fn key(v: &RadiusView, bounds: &Rect, placer: &mut Placer, w: &Words) -> Vec
 /// the given radii at true scale through one vertex on a common axis, each
 /// over the piece's height (at most the room there is), numbered with its
 /// radius in millimetres at alternate ends.
-pub fn gauge(radii: &[f64], half_height_mm: f64, rect: Rect, w: &Words) -> Vec<Item> {
+///
+/// `faces` holds the piece's own curved faces (the printed face word and the
+/// radius, mm). With `show_key` (the key's page) each is drawn dashed through
+/// the same vertex and named, and a line per face under the arcs says which
+/// gauge arcs it lies between; the room for those lines is kept on the
+/// student's page too, so the arcs print at the same coordinates on both.
+pub fn gauge(
+    radii: &[f64],
+    half_height_mm: f64,
+    faces: &[(&str, f64)],
+    show_key: bool,
+    rect: Rect,
+    w: &Words,
+) -> Vec<Item> {
     if radii.is_empty() || rect.width() < 60.0 || rect.height() < 40.0 {
         return Vec::new();
     }
@@ -168,7 +181,22 @@ pub fn gauge(radii: &[f64], half_height_mm: f64, rect: Rect, w: &Words) -> Vec<I
             y -= 1.0;
         }
     }
-    let room = Rect { min: rect.min, max: Point::new(rect.max.x, y - 2.0) };
+    // The key's lines go under the arcs. Their room is kept on the student's
+    // page too, so the arcs sit at the same place on both.
+    let key_lines: Vec<String> = faces
+        .iter()
+        .flat_map(|&(face, r)| wrap(&face_between(face, r, radii, w), LABEL_PT, Weight::Bold, rect.width()))
+        .collect();
+    let key_h = key_lines.len() as f64 * leading(LABEL_PT);
+    if show_key {
+        let mut ky = rect.min.y + key_h - leading(LABEL_PT) + 1.0;
+        for l in &key_lines {
+            items.push(text(Point::new(rect.min.x, ky), l, LABEL_PT, Weight::Bold, Anchor::Start));
+            ky -= leading(LABEL_PT);
+        }
+    }
+    let room =
+        Rect { min: Point::new(rect.min.x, rect.min.y + key_h + 1.0), max: Point::new(rect.max.x, y - 2.0) };
     let span = half_height_mm.min((room.height() - 16.0) / 2.0).max(5.0);
     let cy = (room.min.y + room.max.y) / 2.0;
     let vx = room.min.x + 25.0;
@@ -216,10 +244,75 @@ pub fn gauge(radii: &[f64], half_height_mm: f64, rect: Rect, w: &Words) -> Vec<I
         let end = if up { pts[0] } else { pts[24] };
         ends.push((end, up, r));
     }
+    // The key's own faces: dashed, a little heavier and grey. Their paths are
+    // kept clear of labels on the student's page too, so the numbers sit at
+    // the same places on both pages.
+    let mut face_labels = Vec::new();
+    for (k, &(face, r)) in faces.iter().enumerate() {
+        let y_max = span.min(0.97 * r);
+        let theta = (y_max / r).asin();
+        let c = Point::new(vx + r, cy);
+        let pts: Vec<Point> = (0..=24)
+            .map(|j| {
+                c + Vec2::from_angle(std::f64::consts::PI - theta + 2.0 * theta * f64::from(j) / 24.0) * r
+            })
+            .collect();
+        placer.block_path(&pts);
+        if show_key {
+            items.push(Item::Arc {
+                center: c,
+                radius_mm: r,
+                start_rad: std::f64::consts::PI - theta,
+                sweep_rad: 2.0 * theta,
+                stroke: Stroke::solid(OUTLINE_W).gray(RAY_GRAY).dashed(EXTENSION_DASH),
+            });
+            let s = w.fill("gauge_face_arc", &[("face", face), ("radius", &fmt1(r))]);
+            // Named at the end away from the axis, the faces on opposite sides.
+            face_labels.push((pts, s, k % 2 == 0));
+        }
+    }
     for (end, up, r) in ends {
         let s = format!("{r:.0}");
         label(&mut items, &mut placer, &room, &s, SMALL_PT, end, Vec2::new(0.0, if up { 1.0 } else { -1.0 }));
     }
+    for (face_arc, s, up) in face_labels {
+        let end = if up { face_arc[0] } else { face_arc[24] };
+        label(&mut items, &mut placer, &room, &s, LABEL_PT, end, Vec2::new(1.0, if up { 0.4 } else { -0.4 }));
+    }
     label(&mut items, &mut placer, &room, w.say("gauge_vertex"), LABEL_PT, vertex, Vec2::new(-1.0, -1.0));
     items
+}
+
+/// The key's line for one face: the gauge arcs its radius lies between (or
+/// the one it is, to half a millimetre; the gauge's radii are whole mm).
+fn face_between(face: &str, r: f64, radii: &[f64], w: &Words) -> String {
+    let radius = fmt1(r);
+    if let Some(g) = radii.iter().find(|g| (*g - r).abs() < 0.5) {
+        return w.fill("gauge_face_on", &[("face", face), ("radius", &radius), ("arc", &format!("{g:.0}"))]);
+    }
+    let below = radii
+        .iter()
+        .copied()
+        .filter(|g| *g < r)
+        .fold(None, |m: Option<f64>, g| Some(m.map_or(g, |m| m.max(g))));
+    let above = radii
+        .iter()
+        .copied()
+        .filter(|g| *g > r)
+        .fold(None, |m: Option<f64>, g| Some(m.map_or(g, |m| m.min(g))));
+    match (below, above) {
+        (Some(lo), Some(hi)) => w.fill(
+            "gauge_face_between",
+            &[
+                ("face", face),
+                ("radius", &radius),
+                ("lower", &format!("{lo:.0}")),
+                ("upper", &format!("{hi:.0}")),
+            ],
+        ),
+        (Some(g), None) | (None, Some(g)) => {
+            w.fill("gauge_face_beyond", &[("face", face), ("radius", &radius), ("arc", &format!("{g:.0}"))])
+        }
+        (None, None) => w.fill("gauge_face_beyond", &[("face", face), ("radius", &radius), ("arc", "—")]),
+    }
 }
