@@ -153,9 +153,7 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
         Job::Grade { results, results_file, answers: answers_text, answers_file, kit, dir, force } => {
             let mut g = crate::output::grade::grade(&results, &results_file, &answers_text, &answers_file)
                 .map_err(|e| Failure::Input(e.to_string()))?;
-            let built = serde_json::from_str::<serde_json::Value>(&answers_text)
-                .ok()
-                .and_then(|v| v["kit_sha256"].as_str().map(str::to_string));
+            let (title, built) = (g.kit_title.clone(), g.kit_sha256.clone());
             if let (Some((name, now)), Some(built)) = (kit, built)
                 && now != built
             {
@@ -180,10 +178,6 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
                     asked: *asked,
                 })
                 .collect();
-            let title = serde_json::from_str::<serde_json::Value>(&answers_text)
-                .ok()
-                .and_then(|v| v["kit"].as_str().map(str::to_string))
-                .unwrap_or_default();
             let scene = crate::layout::grades_scene(&title, &marks, &g.plots, &words);
             let pdf = crate::render::render_pdf(&scene).map_err(|e| Failure::Other(e.to_string()))?;
             Ok(Outcome::Write(Writing {

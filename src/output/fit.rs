@@ -14,6 +14,7 @@ use std::collections::BTreeMap;
 
 use serde_json::Value;
 
+use super::answer_file::AnswerFile;
 use super::grade::{GradeError, Key, Verdict, parse};
 use crate::paper::PaperSpec;
 use crate::sheets::{Choice, Enter, Lesson, SheetPlan, Want};
@@ -55,14 +56,13 @@ pub fn fit(
     answers: &str,
     answers_file: &str,
 ) -> Result<Vec<MaterialFit>, GradeError> {
-    let parsed = parse(results, results_file, answers, answers_file)?;
+    let a = AnswerFile::read(answers, answers_file)?;
+    let parsed = parse(results, results_file, &a, answers_file)?;
     let whole = |message: String| GradeError { file: answers_file.to_string(), line: 0, column: 0, message };
-    let v: Value = serde_json::from_str(answers).map_err(|e| whole(e.to_string()))?;
     // The build's sheets: (group, number) → the plan with its own settings.
     let mut plans: BTreeMap<(String, u64), SheetPlan> = BTreeMap::new();
-    for s in v["sheets"].as_array().into_iter().flatten() {
-        let group = s["group"].as_str().unwrap_or("").to_string();
-        let number = s["sheet"].as_u64().unwrap_or(0);
+    for s in &a.sheets {
+        let number = s.sheet;
         let Some(spec) = lesson.sheets.get((number as usize).wrapping_sub(1)) else {
             return Err(whole(format!(
                 "sheet {number} of the build is not in this kit (it has {} sheets); give the kit the build was made from",
@@ -70,35 +70,31 @@ pub fn fit(
             )));
         };
         let piece = &lesson.kit.pieces[spec.piece];
-        if s["piece"].as_str() != Some(piece.id.as_str()) || s["kind"].as_str() != Some(spec.kind.as_str()) {
+        if s.piece != piece.id || s.kind != spec.kind.as_str() {
             return Err(whole(format!(
                 "sheet {number} was a {} sheet with piece {} in the build, a {} sheet with piece {} in this kit; give the kit the build was made from",
-                s["kind"].as_str().unwrap_or("?"),
-                s["piece"].as_str().unwrap_or("?"),
+                s.kind,
+                s.piece,
                 spec.kind.as_str(),
                 piece.id
             )));
         }
         // A sheet without guide rays (a radius sheet) measures shapes, not the index.
-        if s["rays"].as_array().is_none() {
-            continue;
-        }
-        let enter = match s["enter"].as_str() {
-            Some("front") => Enter::Front,
-            Some("back") => Enter::Back,
-            Some("base") => Enter::Base,
+        let Some(rays) = &s.rays else { continue };
+        let enter = match s.enter.as_str() {
+            "front" => Enter::Front,
+            "back" => Enter::Back,
+            "base" => Enter::Base,
             _ => Enter::Side,
         };
-        let values: Vec<f64> = s["rays"]
-            .as_array()
-            .into_iter()
-            .flatten()
+        let values: Vec<f64> = rays
+            .iter()
             .filter_map(|r| {
                 r.get("height_mm").or_else(|| r.get("angle_of_incidence_deg")).and_then(Value::as_f64)
             })
             .collect();
         let prepared = spec.kind.def().prepare(&lesson.kit, spec, paper);
-        plans.insert((group, number), prepared.plan(Some(&Choice { enter, values })));
+        plans.insert((s.group.clone(), number), prepared.plan(Some(&Choice { enter, values })));
     }
     // The measured numbers, by material.
     let mut by_material: BTreeMap<String, Vec<(Key, f64, f64)>> = BTreeMap::new();

@@ -8,6 +8,7 @@ use std::collections::BTreeMap;
 
 use serde_json::Value;
 
+use super::answer_file::AnswerFile;
 use super::results::COLUMNS;
 use super::summary::field;
 
@@ -47,6 +48,10 @@ pub struct Grades {
     pub warnings: Vec<String>,
     /// For each sheet (and entry side) with a curve: the class's measurements against it.
     pub plots: Vec<crate::layout::ClassPlotData>,
+    /// The kit's title, from the answer file.
+    pub kit_title: String,
+    /// SHA-256 of the kit file the build was made from, when the answer file records it.
+    pub kit_sha256: Option<String>,
 }
 
 /// One expected answer from the answer file.
@@ -67,49 +72,28 @@ enum Want {
 pub(crate) type Key = (String, u64, String, String);
 
 /// The expected answers in an answer file, and its groups in order.
-fn expected(answers: &str, file: &str) -> Result<(BTreeMap<Key, Expected>, Vec<String>), GradeError> {
+fn expected(a: &AnswerFile, file: &str) -> Result<(BTreeMap<Key, Expected>, Vec<String>), GradeError> {
     let whole = |message: String| GradeError { file: file.to_string(), line: 0, column: 0, message };
-    let v: Value = serde_json::from_str(answers).map_err(|e| GradeError {
-        file: file.to_string(),
-        line: e.line() as u64,
-        column: e.column(),
-        message: format!("not the answer file raysheet writes (not JSON: {e}); give the answers.json of the build the results belong to"),
-    })?;
-    if v.get("format").and_then(Value::as_u64) != Some(u64::from(super::answers::FORMAT)) {
-        return Err(whole(format!(
-            "not an answer file of this raysheet (its `format` is {}, this raysheet reads {}); give the answers.json the same build wrote",
-            v.get("format").map(|f| f.to_string()).unwrap_or_else(|| "missing".into()),
-            super::answers::FORMAT
-        )));
-    }
-    let sheets = v.get("sheets").and_then(Value::as_array).ok_or_else(|| whole("has no `sheets`".into()))?;
     let mut out = BTreeMap::new();
     let mut groups: Vec<String> = Vec::new();
-    for s in sheets {
-        let group = s.get("group").and_then(Value::as_str).unwrap_or("").to_string();
-        if !groups.contains(&group) {
-            groups.push(group.clone());
+    for s in &a.sheets {
+        if !groups.contains(&s.group) {
+            groups.push(s.group.clone());
         }
-        let variant = s.get("variant").and_then(Value::as_str).unwrap_or("").to_string();
-        let sheet = s
-            .get("sheet")
-            .and_then(Value::as_u64)
-            .ok_or_else(|| whole("a sheet without its number".into()))?;
-        let Some(measured) = s.get("measured").and_then(Value::as_array) else {
+        let Some(measured) = &s.measured else {
             return Err(whole(format!(
-                "sheet {sheet} has no `measured` list: the answer file was written by an older raysheet; build again to mark"
+                "sheet {} has no `measured` list: the answer file was written by an older raysheet; build again to mark",
+                s.sheet
             )));
         };
         for m in measured {
-            let text = |k: &str| m.get(k).and_then(Value::as_str).unwrap_or("").to_string();
-            let want =
-                match (m.get("value").and_then(Value::as_f64), m.get("tolerance").and_then(Value::as_f64)) {
-                    (Some(value), Some(tolerance)) => Want::Value { value, tolerance },
-                    _ => Want::Observation(text("observation")),
-                };
+            let want = match (m.value, m.tolerance) {
+                (Some(value), Some(tolerance)) => Want::Value { value, tolerance },
+                _ => Want::Observation(m.observation.clone().unwrap_or_default()),
+            };
             out.insert(
-                (group.clone(), sheet, text("ray"), text("quantity")),
-                Expected { variant: variant.clone(), unit: text("unit"), want },
+                (s.group.clone(), s.sheet, m.ray.clone(), m.quantity.clone()),
+                Expected { variant: s.variant.clone(), unit: m.unit.clone(), want },
             );
         }
     }
@@ -169,51 +153,45 @@ pub fn grade(
     answers: &str,
     answers_file: &str,
 ) -> Result<Grades, GradeError> {
-    let Parsed { want, groups, rows, warnings } = parse(results, results_file, answers, answers_file)?;
-    let plots = class_plots(answers, &rows);
+    let a = AnswerFile::read(answers, answers_file)?;
+    let Parsed { want, groups, rows, warnings } = parse(results, results_file, &a, answers_file)?;
+    let plots = class_plots(&a, &rows);
     let mut g = grades_of(want, groups, rows, warnings)?;
     g.plots = plots;
+    g.kit_title = a.kit;
+    g.kit_sha256 = a.kit_sha256;
     Ok(g)
 }
 
 /// Every sheet's curve from the answer file (one plot per sheet number and
 /// entry side, the first group's curve standing for the groups that share
 /// it), with each measured number of its quantity at its ray's setting.
-fn class_plots(answers: &str, rows: &[(Key, String, Option<Verdict>)]) -> Vec<crate::layout::ClassPlotData> {
-    let Ok(v) = serde_json::from_str::<Value>(answers) else { return Vec::new() };
+fn class_plots(a: &AnswerFile, rows: &[(Key, String, Option<Verdict>)]) -> Vec<crate::layout::ClassPlotData> {
     let mut plots: Vec<(u64, String, crate::layout::ClassPlotData)> = Vec::new();
     let mut settings: BTreeMap<(String, u64, String), f64> = BTreeMap::new();
     let mut side: BTreeMap<(String, u64), String> = BTreeMap::new();
-    for s in v["sheets"].as_array().into_iter().flatten() {
-        let (group, number) =
-            (s["group"].as_str().unwrap_or("").to_string(), s["sheet"].as_u64().unwrap_or(0));
-        let enter = s["enter"].as_str().unwrap_or("").to_string();
-        side.insert((group.clone(), number), enter.clone());
-        let Some(c) = s.get("class_curve") else { continue };
-        let x_field = c["x"].as_str().unwrap_or("");
-        for r in s["rays"].as_array().into_iter().flatten() {
-            if let (Some(letter), Some(x)) = (r["ray"].as_str(), r[x_field].as_f64()) {
-                settings.insert((group.clone(), number, letter.to_string()), x.abs());
+    for s in &a.sheets {
+        side.insert((s.group.clone(), s.sheet), s.enter.clone());
+        let Some(c) = &s.class_curve else { continue };
+        for r in s.rays.iter().flatten() {
+            if let (Some(letter), Some(x)) =
+                (r.get("ray").and_then(Value::as_str), r.get(&c.x).and_then(Value::as_f64))
+            {
+                settings.insert((s.group.clone(), s.sheet, letter.to_string()), x.abs());
             }
         }
-        if plots.iter().any(|(n, e, _)| *n == number && *e == enter) {
+        if plots.iter().any(|(n, e, _)| *n == s.sheet && *e == s.enter) {
             continue;
         }
-        let curve: Vec<(f64, f64)> = c["points"]
-            .as_array()
-            .into_iter()
-            .flatten()
-            .filter_map(|p| Some((p[0].as_f64()?, p[1].as_f64()?)))
-            .collect();
         plots.push((
-            number,
-            enter,
+            s.sheet,
+            s.enter.clone(),
             crate::layout::ClassPlotData {
-                sheet: number,
-                x: x_field.to_string(),
-                y: c["y"].as_str().unwrap_or("").to_string(),
-                curve,
-                paraxial: c["paraxial"].as_f64(),
+                sheet: s.sheet,
+                x: c.x.clone(),
+                y: c.y.clone(),
+                curve: c.points.clone(),
+                paraxial: c.paraxial,
                 points: Vec::new(),
             },
         ));
@@ -235,7 +213,7 @@ fn class_plots(answers: &str, rows: &[(Key, String, Option<Verdict>)]) -> Vec<cr
 pub(crate) fn parse(
     results: &str,
     results_file: &str,
-    answers: &str,
+    answers: &AnswerFile,
     answers_file: &str,
 ) -> Result<Parsed, GradeError> {
     let (want, groups) = expected(answers, answers_file)?;
@@ -451,7 +429,7 @@ fn grades_of(
             (g, within, measured, asked)
         })
         .collect();
-    Ok(Grades { csv, groups, warnings, plots: Vec::new() })
+    Ok(Grades { csv, groups, warnings, plots: Vec::new(), kit_title: String::new(), kit_sha256: None })
 }
 
 /// How one measured answer compares.

@@ -1,6 +1,7 @@
 //! What a run hands back, as values: the answer file (JSON), the class summary
 //! (CSV), the `check`/`solve` text tables, and a whole build as a list of files.
 
+pub mod answer_file;
 pub mod answers;
 pub mod build;
 pub mod fit;
