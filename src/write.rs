@@ -263,6 +263,8 @@ fn remove_empty_folders(dir: &Path, from: &Path) {
 /// the staging folder removed. Every step can be done again after a stop.
 fn apply_journal(dir: &Path, journal: &Journal, steps: &mut Steps) -> Result<(), WriteError> {
     let staging = dir.join(STAGING);
+    // Folders made so far: each made once, not once per file in it.
+    let mut made: BTreeSet<PathBuf> = BTreeSet::new();
     for path in journal.manifest.keys() {
         let from = staging.join(path);
         if !from.exists() {
@@ -270,7 +272,10 @@ fn apply_journal(dir: &Path, journal: &Journal, steps: &mut Steps) -> Result<(),
         }
         let to = dir.join(path);
         let parent = to.parent().unwrap_or(dir);
-        fs::create_dir_all(parent).map_err(|e| io(parent, "create the folder", e))?;
+        if !made.contains(parent) {
+            fs::create_dir_all(parent).map_err(|e| io(parent, "create the folder", e))?;
+            made.insert(parent.to_path_buf());
+        }
         if is_link(parent) || is_link(&to) {
             return Err(link_refused(if is_link(parent) { parent } else { &to }));
         }
@@ -512,10 +517,15 @@ fn write_steps(
 fn stage(staging: &Path, files: &[Output], steps: &mut Steps) -> Result<(), WriteError> {
     steps.next().map_err(|e| io(staging, "create the folder", e))?;
     fs::create_dir(staging).map_err(|e| io(staging, "create the folder", e))?;
+    // Each folder is made once, not once per file in it.
+    let mut made: BTreeSet<PathBuf> = BTreeSet::new();
     for f in files {
         let path = staging.join(&f.path);
         let parent = path.parent().unwrap_or(staging);
-        fs::create_dir_all(parent).map_err(|e| io(parent, "create the folder", e))?;
+        if !made.contains(parent) {
+            fs::create_dir_all(parent).map_err(|e| io(parent, "create the folder", e))?;
+            made.insert(parent.to_path_buf());
+        }
         steps.next().map_err(|e| io(&path, "write", e))?;
         let mut file = open_new(&path).map_err(|e| io(&path, "create", e))?;
         file.write_all(&f.bytes).map_err(|e| io(&path, "write", e))?;
