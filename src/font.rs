@@ -89,9 +89,25 @@ pub fn unsupported_chars(text: &str) -> Vec<char> {
     out
 }
 
-/// Advance width of glyph `gid` in font units.
+/// Advance widths in font units by glyph id, read from the face once.
+fn advances(weight: Weight) -> &'static [u16] {
+    static R: OnceLock<Vec<u16>> = OnceLock::new();
+    static B: OnceLock<Vec<u16>> = OnceLock::new();
+    let cell = match weight {
+        Weight::Regular => &R,
+        Weight::Bold => &B,
+    };
+    cell.get_or_init(|| {
+        let face = face(weight);
+        (0..face.number_of_glyphs())
+            .map(|g| face.glyph_hor_advance(ttf_parser::GlyphId(g)).unwrap_or(0))
+            .collect()
+    })
+}
+
+/// Advance width of glyph `gid` in font units (0 for a glyph the face lacks).
 pub fn advance_units(weight: Weight, gid: u16) -> u16 {
-    face(weight).glyph_hor_advance(ttf_parser::GlyphId(gid)).unwrap_or(0)
+    advances(weight).get(usize::from(gid)).copied().unwrap_or(0)
 }
 
 /// Font units per em.
@@ -103,9 +119,26 @@ pub fn units_per_em(weight: Weight) -> u16 {
 /// font lacks count as the width of the missing-glyph box).
 pub fn text_width_mm(text: &str, size_pt: f64, weight: Weight) -> f64 {
     let upem = f64::from(units_per_em(weight));
-    let units: f64 =
-        text.chars().map(|ch| f64::from(advance_units(weight, glyph_id(weight, ch).unwrap_or(0)))).sum();
+    let (advances, by_char) = (advances(weight), char_advances(weight));
+    let width = |ch: char| match by_char.get(ch as usize) {
+        Some(&units) => f64::from(units),
+        None => f64::from(advances.get(usize::from(glyph_id(weight, ch).unwrap_or(0))).copied().unwrap_or(0)),
+    };
+    let units: f64 = text.chars().map(width).sum();
     units / upem * size_pt * MM_PER_PT
+}
+
+/// Advance widths in font units of the characters below [`TABLE_CHARS`] (a
+/// missing character has the missing-glyph box's width), for measuring text
+/// with one look-up a character.
+fn char_advances(weight: Weight) -> &'static [u16] {
+    static R: OnceLock<Vec<u16>> = OnceLock::new();
+    static B: OnceLock<Vec<u16>> = OnceLock::new();
+    let cell = match weight {
+        Weight::Regular => &R,
+        Weight::Bold => &B,
+    };
+    cell.get_or_init(|| table(weight).iter().map(|&gid| advance_units(weight, gid)).collect())
 }
 
 /// The first character of `text` that prints as nothing or reorders what
@@ -139,6 +172,29 @@ mod tests {
     fn greek_arrows_and_accents_are_covered() {
         assert!(unsupported_chars("θ μ → ± ° é ü ł Ω").is_empty());
         assert_eq!(unsupported_chars("a漢b"), vec!['漢']);
+    }
+
+    #[test]
+    fn the_advance_table_agrees_with_the_face_for_every_glyph() {
+        // The table is a copy of the face's hmtx advances (read by ttf-parser);
+        // past the last glyph both say nothing, here 0.
+        for w in [Weight::Regular, Weight::Bold] {
+            let f = face(w);
+            for g in 0..=f.number_of_glyphs() {
+                let want = f.glyph_hor_advance(ttf_parser::GlyphId(g)).unwrap_or(0);
+                assert_eq!(advance_units(w, g), want, "{w:?} glyph {g}");
+            }
+            // Text widths read the per-character table; every character of it,
+            // and one past it, measures as its glyph's advance from the face.
+            let upem = f64::from(f.units_per_em());
+            for code in (0..=TABLE_CHARS).step_by(7) {
+                let Some(ch) = char::from_u32(code) else { continue };
+                let gid = f.glyph_index(ch).map_or(0, |g| g.0);
+                let want = f64::from(f.glyph_hor_advance(ttf_parser::GlyphId(gid)).unwrap_or(0));
+                let got = text_width_mm(&ch.to_string(), 72.0, w) / 25.4 * upem;
+                assert!((got - want).abs() < 1e-9, "{w:?} U+{code:04X}: {got} vs {want}");
+            }
+        }
     }
 
     #[test]

@@ -10,7 +10,7 @@ use raysheet::kit::{Groups, Kit, MAX_GROUPS};
 use raysheet::layout::{self, Templates};
 use raysheet::output::answers::to_json;
 use raysheet::output::summary::summary_csv;
-use raysheet::output::{Formats, Output, build_class};
+use raysheet::output::{Formats, Output, build_class, build_class_on};
 use raysheet::paper::PaperSpec;
 use raysheet::plan::{Group, folder_names, parse_roster};
 use raysheet::scene::dump;
@@ -229,6 +229,63 @@ fn one_seed_gives_identical_plans_and_bytes_another_seed_other_heights() {
     }
     let answers = |o: &[Output]| o.iter().find(|f| f.path == "answers.json").unwrap().bytes.clone();
     assert_ne!(answers(&first), answers(&other));
+}
+
+#[test]
+fn one_two_or_three_threads_give_the_same_files_and_bytes() {
+    // Groups are laid out and rendered in parallel (issue 13); the files, their
+    // order and their bytes must not depend on how many threads did the work.
+    let (kit, paper) = bench();
+    let cp = plan_class(&kit, &paper, kit_groups(&kit).into_iter().take(5).collect(), 2031);
+    let templates = Templates::shipped().unwrap();
+    let both = Formats { pdf: true, svg: true };
+    let one = build_class_on(&kit, &cp, &paper, both, &templates, 1).unwrap();
+    for threads in [2, 3] {
+        let many = build_class_on(&kit, &cp, &paper, both, &templates, threads).unwrap();
+        let paths = |o: &[Output]| o.iter().map(|f| f.path.clone()).collect::<Vec<_>>();
+        assert_eq!(paths(&one), paths(&many), "{threads} threads");
+        for (x, y) in one.iter().zip(&many) {
+            assert!(x.bytes == y.bytes, "{} differs between 1 and {threads} threads", x.path);
+        }
+    }
+}
+
+#[test]
+fn every_pdf_of_a_class_set_shares_one_font_subset_and_the_pages_of_its_groups() {
+    // One subset per face for the whole set, embedded unchanged in every PDF;
+    // each page's content stream made once, the same bytes in its group's PDF
+    // and in the combined PDF (issue 13). Read back with lopdf, so this checks
+    // the files as a PDF reader sees them.
+    let (kit, paper) = bench();
+    let cp = plan_class(&kit, &paper, kit_groups(&kit).into_iter().take(3).collect(), 77);
+    let out = build_class(&kit, &cp, &paper, Formats { pdf: true, svg: false }).unwrap();
+    let doc = |path: &str| {
+        let f = out.iter().find(|f| f.path == path).unwrap_or_else(|| panic!("{path} is built"));
+        lopdf::Document::load_mem(&f.bytes).unwrap_or_else(|e| panic!("{path}: {e}"))
+    };
+    let font_files = |d: &lopdf::Document| -> BTreeSet<Vec<u8>> {
+        d.objects
+            .values()
+            .filter_map(|o| o.as_dict().ok())
+            .filter_map(|dict| dict.get(b"FontFile2").ok()?.as_reference().ok())
+            .map(|r| d.get_object(r).unwrap().as_stream().unwrap().content.clone())
+            .collect()
+    };
+    let contents = |d: &lopdf::Document| -> Vec<Vec<u8>> {
+        d.get_pages().values().map(|&id| d.get_page_content(id).unwrap()).collect()
+    };
+    let all_keys = doc("keys.pdf");
+    let shared = font_files(&all_keys);
+    assert_eq!(shared.len(), 2, "regular and bold, once each");
+    let mut group_pages = Vec::new();
+    for g in &cp.groups {
+        let keys = doc(&format!("groups/{}/keys.pdf", g.folder));
+        assert_eq!(font_files(&keys), shared, "group {}", g.name);
+        assert_eq!(font_files(&doc(&format!("groups/{}/sheets.pdf", g.folder))), shared);
+        group_pages.extend(contents(&keys));
+    }
+    assert!(font_files(&doc("summary.pdf")).is_subset(&shared));
+    assert!(contents(&all_keys) == group_pages, "the combined keys are the groups' pages in order");
 }
 
 #[test]

@@ -6,7 +6,7 @@ use crate::draw::Words;
 use crate::kit::Kit;
 use crate::layout::{self, Templates};
 use crate::paper::{PaperSpec, PrinterCorrection};
-use crate::render::{RenderError, render_pdf, render_svg_page};
+use crate::render::{Deflater, PdfFonts, PdfPage, RenderError, pdf_document, render_pdf, render_svg_page};
 use crate::scene::{Item, Scene};
 use crate::sheets::{ClassPlan, SheetPlan};
 
@@ -232,7 +232,8 @@ pub fn build_class(
     build_class_with(kit, class, paper, formats, &templates)
 }
 
-/// [`build_class`] with the given sheet text.
+/// [`build_class`] with the given sheet text, on as many threads as the
+/// machine offers ([`default_threads`]).
 pub fn build_class_with(
     kit: &Kit,
     class: &ClassPlan,
@@ -240,42 +241,109 @@ pub fn build_class_with(
     formats: Formats,
     templates: &Templates,
 ) -> Result<Vec<Output>, BuildError> {
+    build_class_on(kit, class, paper, formats, templates, default_threads())
+}
+
+/// How many threads a class set is built on by default: the processors the
+/// operating system gives this process (1 when it cannot say).
+pub fn default_threads() -> usize {
+    std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get)
+}
+
+/// One group's scenes, laid out and corrected for the printer.
+struct GroupScenes {
+    sheets: Scene,
+    keys: Scene,
+}
+
+/// One group's files, and its pages ready for the combined PDFs.
+struct GroupFiles {
+    files: Vec<Output>,
+    sheet_pages: Vec<PdfPage>,
+    key_pages: Vec<PdfPage>,
+}
+
+/// [`build_class_with`] on `threads` threads (at least one). Groups are laid
+/// out and rendered in parallel; the files, their order and their bytes are
+/// the same for any number of threads.
+///
+/// Every PDF of the set embeds the same font subsets (every glyph the set
+/// shows, subset and compressed once), so each page's content stream is built
+/// and compressed once, for its group's PDF, and reused in the combined PDFs.
+pub fn build_class_on(
+    kit: &Kit,
+    class: &ClassPlan,
+    paper: &PaperSpec,
+    formats: Formats,
+    templates: &Templates,
+    threads: usize,
+) -> Result<Vec<Output>, BuildError> {
     preflight(kit, class.plans.iter().flatten(), paper)?;
-    let mut all_sheets =
-        Scene { title: format!("{}: student sheets, all groups", kit.title), pages: Vec::new() };
-    let mut all_keys = Scene { title: format!("{}: answer keys, all groups", kit.title), pages: Vec::new() };
-    let mut out = Vec::new();
-    for (group, plans) in class.groups.iter().zip(&class.plans) {
-        let mut set = layout::layout(&kit.title, plans, paper, templates)?;
-        set.sheets = corrected(set.sheets, kit.printer, paper.margin_mm, &templates.words);
-        set.keys = corrected(set.keys, kit.printer, paper.margin_mm, &templates.words);
-        let prefix = format!("groups/{}/", group.folder);
-        let sheets = Scene {
-            title: format!("{}: {}: student sheets", kit.title, group.name),
-            pages: set.sheets.pages,
-        };
-        let keys =
-            Scene { title: format!("{}: {}: answer keys", kit.title, group.name), pages: set.keys.pages };
-        if all_sheets.pages.len() + sheets.pages.len() + all_keys.pages.len() + keys.pages.len() > MAX_PAGES {
+    let jobs: Vec<_> = class.groups.iter().zip(&class.plans).collect();
+    let laid = in_parallel(threads, jobs, |(group, plans)| {
+        let set = layout::layout(&kit.title, plans, paper, templates)?;
+        let sheets = corrected(set.sheets, kit.printer, paper.margin_mm, &templates.words);
+        let keys = corrected(set.keys, kit.printer, paper.margin_mm, &templates.words);
+        Ok::<_, BuildError>(GroupScenes {
+            sheets: Scene {
+                title: format!("{}: {}: student sheets", kit.title, group.name),
+                pages: sheets.pages,
+            },
+            keys: Scene { title: format!("{}: {}: answer keys", kit.title, group.name), pages: keys.pages },
+        })
+    })
+    .into_iter()
+    .collect::<Result<Vec<_>, _>>()?;
+    let mut pages = 0_usize;
+    for g in &laid {
+        pages += g.sheets.pages.len() + g.keys.pages.len();
+        if pages > MAX_PAGES {
             return Err(BuildError::TooLarge(format!(
                 "this class set would need more than {MAX_PAGES} pages; make fewer groups or fewer sheets"
             )));
         }
-        scene_files(&sheets, &prefix, "sheets.pdf", formats, &mut out)?;
-        scene_files(&keys, &prefix, "keys.pdf", formats, &mut out)?;
-        all_sheets.pages.extend(sheets.pages);
-        all_keys.pages.extend(keys.pages);
     }
-    if formats.pdf {
-        out.push(Output { path: "sheets.pdf".into(), bytes: render_pdf(&all_sheets)? });
-        out.push(Output { path: "keys.pdf".into(), bytes: render_pdf(&all_keys)? });
-        let summary = corrected(
+    let summary = formats.pdf.then(|| {
+        corrected(
             layout::summary_scene(&kit.title, class, paper, templates),
             kit.printer,
             paper.margin_mm,
             &templates.words,
-        );
-        out.push(Output { path: "summary.pdf".into(), bytes: render_pdf(&summary)? });
+        )
+    });
+    let fonts = if formats.pdf {
+        let scenes = laid.iter().flat_map(|g| [&g.sheets, &g.keys]).chain(summary.as_ref());
+        Some(PdfFonts::new(scenes, &mut Deflater::new())?)
+    } else {
+        None
+    };
+
+    let jobs: Vec<_> = class.groups.iter().zip(laid).collect();
+    let rendered = in_parallel_with(threads, jobs, Deflater::new, |z, (group, scenes)| {
+        group_files(&group.folder, &scenes, fonts.as_ref(), formats, z)
+    })
+    .into_iter()
+    .collect::<Result<Vec<_>, _>>()?;
+
+    let mut out = Vec::new();
+    let mut all_sheets = Vec::new();
+    let mut all_keys = Vec::new();
+    for g in rendered {
+        out.extend(g.files);
+        all_sheets.extend(g.sheet_pages);
+        all_keys.extend(g.key_pages);
+    }
+    if let (Some(fonts), Some(summary)) = (&fonts, &summary) {
+        let title = format!("{}: student sheets, all groups", kit.title);
+        out.push(Output { path: "sheets.pdf".into(), bytes: pdf_document(&title, &all_sheets, fonts) });
+        drop(all_sheets);
+        let title = format!("{}: answer keys, all groups", kit.title);
+        out.push(Output { path: "keys.pdf".into(), bytes: pdf_document(&title, &all_keys, fonts) });
+        drop(all_keys);
+        let mut z = Deflater::new();
+        let pages =
+            summary.pages.iter().map(|p| PdfPage::new(p, fonts, &mut z)).collect::<Result<Vec<_>, _>>()?;
+        out.push(Output { path: "summary.pdf".into(), bytes: pdf_document(&summary.title, &pages, fonts) });
     }
     out.push(Output { path: "summary.csv".into(), bytes: summary::summary_csv(class).into_bytes() });
     let flat: Vec<SheetPlan> = class.plans.iter().flatten().cloned().collect();
@@ -285,4 +353,108 @@ pub fn build_class_with(
         bytes: answers::to_json_for(kit, Some(class.seed), &flat).into_bytes(),
     });
     Ok(out)
+}
+
+/// One group's PDFs (against the set's `fonts`) and SVGs, in the order
+/// `scene_files` gives them, and its pages kept for the combined PDFs.
+fn group_files(
+    folder: &str,
+    scenes: &GroupScenes,
+    fonts: Option<&PdfFonts>,
+    formats: Formats,
+    z: &mut Deflater,
+) -> Result<GroupFiles, BuildError> {
+    let prefix = format!("groups/{folder}/");
+    let mut files = Vec::new();
+    let mut kept = Vec::new();
+    for (scene, name) in [(&scenes.sheets, "sheets.pdf"), (&scenes.keys, "keys.pdf")] {
+        let mut pages = Vec::new();
+        if let Some(fonts) = fonts {
+            pages = scene.pages.iter().map(|p| PdfPage::new(p, fonts, z)).collect::<Result<Vec<_>, _>>()?;
+            files.push(Output {
+                path: format!("{prefix}{name}"),
+                bytes: pdf_document(&scene.title, &pages, fonts),
+            });
+        }
+        if formats.svg {
+            for page in &scene.pages {
+                let svg = render_svg_page(page, &scene.title)?;
+                files
+                    .push(Output { path: format!("{prefix}svg/{}.svg", page.name), bytes: svg.into_bytes() });
+            }
+        }
+        kept.push(pages);
+    }
+    let key_pages = kept.pop().unwrap_or_default();
+    let sheet_pages = kept.pop().unwrap_or_default();
+    Ok(GroupFiles { files, sheet_pages, key_pages })
+}
+
+/// `work` applied to every job on up to `threads` threads; the results in the
+/// jobs' order, whichever thread did which job.
+fn in_parallel<J: Send, R: Send>(threads: usize, jobs: Vec<J>, work: impl Fn(J) -> R + Sync) -> Vec<R> {
+    in_parallel_with(threads, jobs, || (), |(), job| work(job))
+}
+
+/// [`in_parallel`] with a value each thread makes once (`init`) and hands to
+/// every job it does (a compressor, say).
+fn in_parallel_with<J: Send, R: Send, S>(
+    threads: usize,
+    jobs: Vec<J>,
+    init: impl Fn() -> S + Sync,
+    work: impl Fn(&mut S, J) -> R + Sync,
+) -> Vec<R> {
+    let n = jobs.len();
+    let threads = threads.clamp(1, n.max(1));
+    if threads == 1 {
+        let mut state = init();
+        return jobs.into_iter().map(|j| work(&mut state, j)).collect();
+    }
+    // Each thread takes the next job off the shared queue, so a slow group
+    // does not hold up the others; the index puts the results back in order.
+    let queue = std::sync::Mutex::new(jobs.into_iter().enumerate());
+    let next = || queue.lock().unwrap_or_else(std::sync::PoisonError::into_inner).next();
+    let mut done: Vec<(usize, R)> = std::thread::scope(|scope| {
+        let workers: Vec<_> = (0..threads)
+            .map(|_| {
+                scope.spawn(|| {
+                    let mut state = init();
+                    let mut mine = Vec::new();
+                    while let Some((i, job)) = next() {
+                        mine.push((i, work(&mut state, job)));
+                    }
+                    mine
+                })
+            })
+            .collect();
+        workers
+            .into_iter()
+            .flat_map(|w| match w.join() {
+                Ok(mine) => mine,
+                // A panic in a job is a defect: carry it on to the caller.
+                Err(panic) => std::panic::resume_unwind(panic),
+            })
+            .collect()
+    });
+    done.sort_by_key(|(i, _)| *i);
+    done.into_iter().map(|(_, r)| r).collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn parallel_results_keep_the_jobs_order() {
+        for threads in [1, 2, 3, 8] {
+            let jobs: Vec<u64> = (0..50).collect();
+            // Uneven work, so threads finish out of order.
+            let got =
+                in_parallel(threads, jobs, |j| (0..(j % 7) * 10_000).fold(j, |a, b| a ^ b.rotate_left(3)));
+            let want: Vec<u64> =
+                (0..50).map(|j: u64| (0..(j % 7) * 10_000).fold(j, |a, b| a ^ b.rotate_left(3))).collect();
+            assert_eq!(got, want, "{threads} threads");
+        }
+        assert!(in_parallel(2, Vec::<u8>::new(), |j| j).is_empty());
+    }
 }

@@ -11,6 +11,6 @@ pub mod results;
 pub mod summary;
 
 pub use build::{
-    BuildError, Formats, MAX_PAGES, MAX_SHEET_PAGES, Output, build_class, build_class_with, build_plans,
-    build_plans_with, preflight,
+    BuildError, Formats, MAX_PAGES, MAX_SHEET_PAGES, Output, build_class, build_class_on, build_class_with,
+    build_plans, build_plans_with, default_threads, preflight,
 };

@@ -23,7 +23,7 @@ use crate::scene::{Dash, Item, OutlinePart, Page, Rect, Stroke, Weight};
 pub mod pdf;
 pub mod svg;
 
-pub use pdf::render_pdf;
+pub use pdf::{Deflater, PdfFonts, PdfPage, pdf_document, render_pdf};
 pub use svg::render_svg_page;
 
 /// Why a scene could not be rendered.

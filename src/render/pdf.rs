@@ -21,13 +21,18 @@ pub mod bezier;
 mod content;
 mod fonts;
 
+use std::collections::BTreeSet;
+
+use miniz_oxide::deflate::core::{
+    CompressorOxide, TDEFLFlush, TDEFLStatus, compress, create_comp_flags_from_zip_params,
+};
 use pdf_writer::{Filter, Finish, Name, Pdf, Rect, Ref, TextStr};
 
-use crate::scene::Scene;
+use crate::scene::{Page, Scene, Weight};
 
 use super::RenderError;
 use content::page_content;
-use fonts::Fonts;
+use fonts::{EmbeddedFace, Fonts};
 
 /// Millimetres to PDF points: `mm · 72 / 25.4` (ISO 32000-1: 1 pt = 1/72 in).
 /// The one place where page units change.
@@ -46,24 +51,101 @@ pub fn render_pdf(scene: &Scene) -> Result<Vec<u8>, RenderError> {
     for page in &scene.pages {
         super::check_finite(page)?;
     }
-    let fonts = Fonts::collect(scene)?;
-    let contents = scene.pages.iter().map(|p| page_content(p, &fonts)).collect::<Result<Vec<_>, _>>()?;
+    let mut z = Deflater::new();
+    let fonts = PdfFonts::new([scene], &mut z)?;
+    let pages = scene.pages.iter().map(|p| PdfPage::new(p, &fonts, &mut z)).collect::<Result<Vec<_>, _>>()?;
+    Ok(pdf_document(&scene.title, &pages, &fonts))
+}
+
+/// The faces a set of documents uses, each subset once to every glyph any of
+/// them shows, its font file and `/ToUnicode` map compressed once. Every
+/// document of the set embeds these same bytes, and every page's content
+/// stream, encoded against them, can go into any document of the set
+/// ([`PdfPage`], [`pdf_document`]).
+#[derive(Debug)]
+pub struct PdfFonts {
+    fonts: Fonts,
+    faces: Vec<(Weight, EmbeddedFace)>,
+}
+
+impl PdfFonts {
+    /// Gathers the glyphs of every text of `scenes`, refusing characters a face
+    /// cannot show, and subsets and compresses each face used.
+    pub fn new<'a>(
+        scenes: impl IntoIterator<Item = &'a Scene>,
+        z: &mut Deflater,
+    ) -> Result<PdfFonts, RenderError> {
+        let fonts = Fonts::collect(scenes)?;
+        let faces = fonts.prepare(z)?;
+        Ok(PdfFonts { fonts, faces })
+    }
+}
+
+/// One page ready for any document of its set: its size and its content
+/// stream, built and compressed once.
+#[derive(Clone, Debug)]
+pub struct PdfPage {
+    width_mm: f64,
+    height_mm: f64,
+    /// The content stream, FlateDecode-compressed.
+    stream: Vec<u8>,
+    /// A fingerprint of the uncompressed stream, for the file identifier.
+    fingerprint: [u8; 16],
+    /// Faces to list in the page's font resources.
+    weights: BTreeSet<Weight>,
+}
+
+impl PdfPage {
+    /// The page's content stream against the set's `fonts`, compressed with `z`.
+    /// Fails as [`render_pdf`] does.
+    pub fn new(page: &Page, fonts: &PdfFonts, z: &mut Deflater) -> Result<PdfPage, RenderError> {
+        super::check_finite(page)?;
+        let content = page_content(page, &fonts.fonts)?;
+        let mut id = IdHash::new();
+        id.update(&content.bytes);
+        let stream = z.deflate(&content.bytes);
+        Ok(PdfPage {
+            width_mm: page.width_mm,
+            height_mm: page.height_mm,
+            stream,
+            fingerprint: id.bytes(),
+            weights: content.weights,
+        })
+    }
+}
+
+/// A PDF document titled `title` of `pages`, in order, embedding the faces of
+/// `fonts` that those pages use. Pages made against other fonts would show the
+/// wrong glyphs: give every page of a document the same `fonts`.
+pub fn pdf_document<'a>(
+    title: &str,
+    pages: impl IntoIterator<Item = &'a PdfPage>,
+    fonts: &PdfFonts,
+) -> Vec<u8> {
+    let pages: Vec<&PdfPage> = pages.into_iter().collect();
+    let used: BTreeSet<Weight> = pages.iter().flat_map(|p| p.weights.iter().copied()).collect();
+    let size = pages.iter().map(|p| p.stream.len() + 200).sum::<usize>()
+        + fonts.faces.iter().map(|(_, f)| f.size()).sum::<usize>();
 
     let mut refs = Refs::default();
     let (catalog, tree, info) = (refs.next(), refs.next(), refs.next());
-    let mut pdf = Pdf::new();
+    let mut pdf = Pdf::with_capacity(size + 1024);
     let mut id = IdHash::new();
-    id.update(scene.title.as_bytes());
+    id.update(title.as_bytes());
 
-    let font_refs = fonts.embed(&mut pdf, &mut refs, &mut id)?;
+    let mut font_refs = Vec::new();
+    for (weight, face) in fonts.faces.iter().filter(|(w, _)| used.contains(w)) {
+        id.update(&face.fingerprint);
+        font_refs.push((*weight, face.embed(&mut pdf, &mut refs)));
+    }
 
-    let mut page_refs = Vec::with_capacity(scene.pages.len());
-    for (page, content) in scene.pages.iter().zip(&contents) {
+    let mut page_refs = Vec::with_capacity(pages.len());
+    for page in &pages {
         let (page_ref, content_ref) = (refs.next(), refs.next());
         page_refs.push(page_ref);
         id.update(&page.width_mm.to_le_bytes());
         id.update(&page.height_mm.to_le_bytes());
-        id.update(&content.bytes);
+        id.update(&page.fingerprint);
 
         let mut p = pdf.page(page_ref);
         p.parent(tree)
@@ -71,15 +153,15 @@ pub fn render_pdf(scene: &Scene) -> Result<Vec<u8>, RenderError> {
             .contents(content_ref);
         let mut resources = p.resources();
         let mut font_dict = resources.fonts();
-        for weight in &content.weights {
-            if let Some(&r) = font_refs.get(weight) {
+        for weight in &page.weights {
+            if let Some(&(_, r)) = font_refs.iter().find(|(w, _)| w == weight) {
                 font_dict.pair(Fonts::resource_name(*weight), r);
             }
         }
         font_dict.finish();
         resources.finish();
         p.finish();
-        pdf.stream(content_ref, &deflate(&content.bytes)).filter(Filter::FlateDecode);
+        pdf.stream(content_ref, &page.stream).filter(Filter::FlateDecode);
     }
 
     let count = i32::try_from(page_refs.len()).unwrap_or(i32::MAX);
@@ -89,11 +171,11 @@ pub fn render_pdf(scene: &Scene) -> Result<Vec<u8>, RenderError> {
     // pdf-writer has no method for /PrintScaling: write the entry by hand.
     cat.viewer_preferences().pair(Name(b"PrintScaling"), Name(b"None"));
     cat.finish();
-    pdf.document_info(info).title(TextStr(&scene.title)).creator(TextStr("raysheet"));
+    pdf.document_info(info).title(TextStr(title)).creator(TextStr("raysheet"));
 
-    let file_id = id.bytes();
+    let file_id = id.bytes().to_vec();
     pdf.set_file_id((file_id.clone(), file_id));
-    Ok(pdf.finish())
+    pdf.finish()
 }
 
 /// Hands out object numbers 1, 2, 3… for one document.
@@ -112,9 +194,63 @@ impl Refs {
     }
 }
 
-/// FlateDecode (zlib) at a fixed level: the same input always gives the same bytes.
-fn deflate(data: &[u8]) -> Vec<u8> {
-    miniz_oxide::deflate::compress_to_vec_zlib(data, 4)
+/// The zlib level of every stream: the same input always gives the same bytes.
+const DEFLATE_LEVEL: u8 = 4;
+
+/// FlateDecode (zlib) at a fixed level, with one compressor kept for every
+/// stream it packs (setting one up costs more than packing a small page).
+/// Gives exactly the bytes of `miniz_oxide::deflate::compress_to_vec_zlib`.
+pub struct Deflater {
+    compressor: Box<CompressorOxide>,
+}
+
+impl std::fmt::Debug for Deflater {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str("Deflater")
+    }
+}
+
+impl Default for Deflater {
+    fn default() -> Self {
+        Deflater::new()
+    }
+}
+
+impl Deflater {
+    /// A compressor at the fixed level with the zlib wrapper.
+    pub fn new() -> Deflater {
+        let flags = create_comp_flags_from_zip_params(i32::from(DEFLATE_LEVEL), 1, 0);
+        Deflater { compressor: Box::new(CompressorOxide::new(flags)) }
+    }
+
+    /// `data` compressed as one zlib stream.
+    pub fn deflate(&mut self, data: &[u8]) -> Vec<u8> {
+        self.compressor.reset();
+        let mut input = data;
+        let mut output = vec![0; (data.len() / 2).max(64)];
+        let mut at = 0;
+        loop {
+            let (status, read, written) =
+                compress(&mut self.compressor, input, &mut output[at..], TDEFLFlush::Finish);
+            at += written;
+            match status {
+                TDEFLStatus::Done => break,
+                TDEFLStatus::Okay => {
+                    input = &input[read.min(input.len())..];
+                    if output.len() - at < 64 {
+                        output.resize(output.len() * 2, 0);
+                    }
+                }
+                // The only failures are a bad parameter or a call after the
+                // end, neither of which this loop makes.
+                TDEFLStatus::BadParam | TDEFLStatus::PutBufFailed => {
+                    unreachable!("deflate refused its input: {status:?}")
+                }
+            }
+        }
+        output.truncate(at);
+        output
+    }
 }
 
 /// Two 64-bit FNV-1a hashes (different starting values) over the same bytes:
@@ -149,9 +285,10 @@ impl IdHash {
     }
 
     /// 16 bytes for `/ID`.
-    fn bytes(&self) -> Vec<u8> {
-        let mut out = self.a.to_be_bytes().to_vec();
-        out.extend_from_slice(&self.b.to_be_bytes());
+    fn bytes(&self) -> [u8; 16] {
+        let mut out = [0; 16];
+        out[..8].copy_from_slice(&self.a.to_be_bytes());
+        out[8..].copy_from_slice(&self.b.to_be_bytes());
         out
     }
 }
@@ -186,8 +323,27 @@ mod tests {
     #[test]
     fn deflate_is_zlib_and_round_trips() {
         let data = b"0 0 m 100 0 l S\n".repeat(50);
-        let packed = deflate(&data);
+        let packed = Deflater::new().deflate(&data);
         assert_eq!(packed[0], 0x78, "zlib header");
         assert_eq!(miniz_oxide::inflate::decompress_to_vec_zlib(&packed).unwrap(), data);
+    }
+
+    #[test]
+    fn a_reused_compressor_gives_the_one_shot_bytes() {
+        // The reference is miniz_oxide's own one-shot zlib function at the
+        // same level; one compressor packs streams of every size in turn,
+        // large ones (output grown past its first guess) included.
+        let mut z = Deflater::new();
+        let mut seed = 7_u64;
+        for n in [0_usize, 1, 17, 5_000, 200_000, 3, 70_000] {
+            let data: Vec<u8> = (0..n)
+                .map(|i| {
+                    seed = seed.wrapping_mul(6_364_136_223_846_793_005).wrapping_add(1);
+                    if i % 3 == 0 { (seed >> 59) as u8 } else { b"0123456789 .\nmlS"[(seed >> 60) as usize] }
+                })
+                .collect();
+            let want = miniz_oxide::deflate::compress_to_vec_zlib(&data, DEFLATE_LEVEL);
+            assert!(z.deflate(&data) == want, "{n} bytes");
+        }
     }
 }

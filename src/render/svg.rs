@@ -71,7 +71,11 @@ impl Flip {
 
     /// `x,y` of a page point in SVG user units.
     fn pt(self, p: Point) -> String {
-        format!("{},{}", num(p.x), num(self.y(p.y)))
+        let mut s = String::with_capacity(16);
+        fixed(&mut s, p.x, 3);
+        s.push(',');
+        fixed(&mut s, self.y(p.y), 3);
+        s
     }
 
     /// A page y in SVG user units.
@@ -400,15 +404,64 @@ fn hex_gray(gray: Gray) -> String {
     format!("#{v:02x}{v:02x}{v:02x}")
 }
 
-/// A number with at most three decimals, trailing zeros trimmed, `-0` as `0`.
 /// A factor or offset of a printer's correction, to 1e-6 (a stretch of
-/// 1.0101 must not become 1.010).
+/// 1.0101 must not become 1.010): [`fixed`] with six decimals.
 fn num6(v: f64) -> String {
-    trim(format!("{v:.6}"))
+    let mut s = String::new();
+    fixed(&mut s, v, 6);
+    s
 }
 
+/// A number with at most three decimals (1 µm), trailing zeros trimmed, `-0`
+/// as `0`: [`fixed`] with three decimals.
 fn num(v: f64) -> String {
-    trim(format!("{v:.3}"))
+    let mut s = String::new();
+    fixed(&mut s, v, 3);
+    s
+}
+
+/// Appends `v` rounded to `decimals` (3 or 6) decimal places, trailing zeros
+/// and a trailing point dropped, `-0` written as `0`: the same text as
+/// `format!("{v:.3}")` (or `.6`) trimmed, without the general float
+/// formatter.
+///
+/// `v · 10^decimals` is rounded to a whole number and written as digits.
+/// That product carries a rounding error of at most half a unit in its last
+/// place, so where it lies within that error (with room to spare) of a half —
+/// where rounding the exact value could go the other way — and where it is too
+/// large for exact whole numbers, the standard formatter, which rounds the
+/// exact binary value, writes it instead.
+fn fixed(out: &mut String, v: f64, decimals: u32) {
+    let scale = if decimals == 6 { 1e6 } else { 1e3 };
+    let x = v * scale;
+    let near_half = ((x - x.floor()) - 0.5).abs() <= 1e-9 + x.abs() * 1e-15;
+    if !x.is_finite() || x.abs() >= 1e15 || near_half {
+        let s = format!("{v:.prec$}", prec = decimals as usize);
+        out.push_str(&trim(s));
+        return;
+    }
+    #[expect(clippy::cast_possible_truncation, reason = "|x| < 1e15, a whole number after round")]
+    let n = x.round() as i64;
+    if n == 0 {
+        out.push('0');
+        return;
+    }
+    if n < 0 {
+        out.push('-');
+    }
+    let n = n.unsigned_abs();
+    let unit = if decimals == 6 { 1_000_000 } else { 1_000 };
+    let (whole, mut frac) = (n / unit, n % unit);
+    let _ = write!(out, "{whole}");
+    if frac != 0 {
+        out.push('.');
+        let mut digits = decimals;
+        while frac % 10 == 0 {
+            frac /= 10;
+            digits -= 1;
+        }
+        let _ = write!(out, "{frac:0width$}", width = digits as usize);
+    }
 }
 
 /// Trailing zeros and a trailing point dropped; `-0` written as `0`.
@@ -444,6 +497,37 @@ mod tests {
         assert_eq!(num(-1.25), "-1.25");
         assert_eq!(num(1.000_4), "1");
         assert_eq!(num(99.999_9), "100");
+    }
+
+    #[test]
+    fn fixed_decimals_write_what_the_standard_formatter_writes() {
+        // The reference is Rust's own `{:.3}` / `{:.6}` (exact decimal rounding
+        // of the binary value), trimmed. Values: random magnitudes from 1e-7 to
+        // 1e9, both signs, and exact binary ties (k/16, k/2048), which the fast
+        // path must hand to the formatter.
+        let slow = |v: f64, d: usize| trim(format!("{v:.d$}"));
+        let mut seed = 0x2545_f491_4f6c_dd1d_u64;
+        let mut values: Vec<f64> = (0..20_000)
+            .map(|_| {
+                seed ^= seed << 13;
+                seed ^= seed >> 7;
+                seed ^= seed << 17;
+                let mantissa = (seed >> 11) as f64 / (1_u64 << 53) as f64;
+                let exp = (seed % 17) as i32 - 7;
+                let sign = if seed & 1 == 0 { 1.0 } else { -1.0 };
+                sign * mantissa * 10_f64.powi(exp)
+            })
+            .collect();
+        values.extend((-4000..4000).map(|k| f64::from(k) / 16.0));
+        values.extend((-4000..4000).map(|k| f64::from(k) / 2048.0));
+        values.extend([0.0, -0.0, 1e9, -1e9, 0.000_5, 0.001_5, 2.000_5, 1e-300, 123_456.789_5]);
+        for v in values {
+            for d in [3_u32, 6] {
+                let mut fast = String::new();
+                fixed(&mut fast, v, d);
+                assert_eq!(fast, slow(v, d as usize), "{v:e} to {d} decimals");
+            }
+        }
     }
 
     #[test]

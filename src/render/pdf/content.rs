@@ -325,7 +325,7 @@ mod tests {
             title: "t".into(),
             pages: vec![Page { width_mm: 210.0, height_mm: 297.0, name: "p".into(), items }],
         };
-        let fonts = Fonts::collect(&scene).unwrap();
+        let fonts = Fonts::collect([&scene]).unwrap();
         String::from_utf8_lossy(&page_content(&scene.pages[0], &fonts).unwrap().bytes).into_owned()
     }
 

@@ -1,8 +1,9 @@
 //! The shipped faces embedded as subset Type0 / CIDFontType2 fonts.
 //!
 //! Each face that some text uses is embedded once per document, shared by all
-//! pages: subset to the glyphs the document shows (the `subsetter` crate), with
-//! Identity-H encoding. The subset's glyph ids are used as CIDs, so the
+//! pages: subset to the glyphs the set of documents shows (the `subsetter`
+//! crate; a class set's documents share one subset, made and compressed once),
+//! with Identity-H encoding. The subset's glyph ids are used as CIDs, so the
 //! CIDToGIDMap is `/Identity`. Widths come from the face's advances (`/W`), and
 //! a `/ToUnicode` CMap maps every CID back to its character so that text can be
 //! copied and searched.
@@ -16,7 +17,7 @@ use subsetter::GlyphRemapper;
 use crate::font;
 use crate::scene::{Item, Scene, Weight};
 
-use super::{IdHash, Refs, deflate};
+use super::{Deflater, IdHash, Refs};
 use crate::render::{RenderError, check_text};
 
 /// `Adobe-Identity-0`: the character collection of an Identity-H CIDFont.
@@ -39,11 +40,11 @@ pub(super) struct Fonts {
 }
 
 impl Fonts {
-    /// Walks every text of the scene, refusing characters a face cannot show,
+    /// Walks every text of the scenes, refusing characters a face cannot show,
     /// and gathers the glyphs each face needs.
-    pub(super) fn collect(scene: &Scene) -> Result<Fonts, RenderError> {
+    pub(super) fn collect<'a>(scenes: impl IntoIterator<Item = &'a Scene>) -> Result<Fonts, RenderError> {
         let mut chars: BTreeMap<Weight, BTreeMap<u16, char>> = BTreeMap::new();
-        for page in &scene.pages {
+        for page in scenes.into_iter().flat_map(|s| &s.pages) {
             collect_items(&page.items, &mut chars)?;
         }
         let faces = chars
@@ -79,18 +80,87 @@ impl Fonts {
         Ok(out)
     }
 
-    /// Writes the font objects of every used face; returns the Type0 font of each.
-    pub(super) fn embed(
-        &self,
-        pdf: &mut Pdf,
-        refs: &mut Refs,
-        id: &mut IdHash,
-    ) -> Result<BTreeMap<Weight, pdf_writer::Ref>, RenderError> {
-        let mut out = BTreeMap::new();
-        for (&weight, glyphs) in &self.faces {
-            out.insert(weight, embed_face(pdf, refs, id, weight, glyphs)?);
-        }
-        Ok(out)
+    /// Subsets every used face and compresses its font file and ToUnicode map,
+    /// ready to be embedded in any number of documents.
+    pub(super) fn prepare(&self, z: &mut Deflater) -> Result<Vec<(Weight, EmbeddedFace)>, RenderError> {
+        self.faces.iter().map(|(&weight, glyphs)| Ok((weight, prepare_face(z, weight, glyphs)?))).collect()
+    }
+}
+
+/// One face's subset and everything written about it, made once for a set of
+/// documents.
+#[derive(Debug)]
+pub(super) struct EmbeddedFace {
+    weight: Weight,
+    /// `TAG+PostScriptName`.
+    base: String,
+    /// Advance of each CID, in 1/1000 em.
+    widths: Vec<f32>,
+    /// The subset, compressed.
+    file: Vec<u8>,
+    /// The subset's length before compression (`/Length1`).
+    length1: i32,
+    /// The ToUnicode CMap, compressed.
+    cmap: Vec<u8>,
+    /// A fingerprint of the subset, for the file identifier.
+    pub(super) fingerprint: [u8; 16],
+}
+
+impl EmbeddedFace {
+    /// About how many bytes the face adds to a document.
+    pub(super) fn size(&self) -> usize {
+        self.file.len() + self.cmap.len() + 8 * self.widths.len() + 1024
+    }
+
+    /// Writes the Type0 font, its CIDFont, descriptor, font file and ToUnicode
+    /// CMap; returns the Type0 font.
+    pub(super) fn embed(&self, pdf: &mut Pdf, refs: &mut Refs) -> pdf_writer::Ref {
+        let (type0, cid_font, descriptor, file, cmap) =
+            (refs.next(), refs.next(), refs.next(), refs.next(), refs.next());
+        let weight = self.weight;
+        let face = font::face(weight);
+        let to_1000 = 1000.0 / f32::from(font::units_per_em(weight));
+        let base = self.base.as_str();
+
+        pdf.type0_font(type0)
+            .base_font(Name(format!("{base}-Identity-H").as_bytes()))
+            .encoding_predefined(Name(b"Identity-H"))
+            .descendant_font(cid_font)
+            .to_unicode(cmap);
+
+        let mut cid = pdf.cid_font(cid_font);
+        cid.subtype(CidFontType::Type2)
+            .base_font(Name(base.as_bytes()))
+            .system_info(IDENTITY)
+            .font_descriptor(descriptor)
+            .cid_to_gid_map_predefined(Name(b"Identity"));
+        cid.widths().consecutive(0, self.widths.iter().copied());
+        cid.finish();
+
+        let bbox = face.global_bounding_box();
+        let mut flags = FontFlags::SYMBOLIC;
+        flags.set(FontFlags::FIXED_PITCH, face.is_monospaced());
+        flags.set(FontFlags::ITALIC, face.is_italic());
+        let ascent = f32::from(face.ascender());
+        pdf.font_descriptor(descriptor)
+            .name(Name(base.as_bytes()))
+            .flags(flags)
+            .bbox(Rect::new(
+                f32::from(bbox.x_min) * to_1000,
+                f32::from(bbox.y_min) * to_1000,
+                f32::from(bbox.x_max) * to_1000,
+                f32::from(bbox.y_max) * to_1000,
+            ))
+            .italic_angle(face.italic_angle())
+            .ascent(ascent * to_1000)
+            .descent(f32::from(face.descender()) * to_1000)
+            .cap_height(face.capital_height().map_or(ascent, f32::from) * to_1000)
+            .stem_v(stem_v_units(weight) * to_1000)
+            .font_file2(file);
+
+        pdf.stream(file, &self.file).filter(Filter::FlateDecode).pair(Name(b"Length1"), self.length1);
+        pdf.stream(cmap, &self.cmap).filter(Filter::FlateDecode);
+        type0
     }
 }
 
@@ -123,82 +193,39 @@ fn collect_items(
     Ok(())
 }
 
-/// Writes the Type0 font, its CIDFont, descriptor, font file and ToUnicode CMap.
-fn embed_face(
-    pdf: &mut Pdf,
-    refs: &mut Refs,
-    id: &mut IdHash,
-    weight: Weight,
-    glyphs: &FaceGlyphs,
-) -> Result<pdf_writer::Ref, RenderError> {
-    let (type0, cid_font, descriptor, file, cmap) =
-        (refs.next(), refs.next(), refs.next(), refs.next(), refs.next());
-    let face = font::face(weight);
+/// Subsets one face to `glyphs` and compresses what every document embeds of it.
+fn prepare_face(z: &mut Deflater, weight: Weight, glyphs: &FaceGlyphs) -> Result<EmbeddedFace, RenderError> {
     let to_1000 = 1000.0 / f32::from(font::units_per_em(weight));
-
     let subset = subsetter::subset(font::font_bytes(weight), 0, &glyphs.remapper)
         .map_err(|e| RenderError::FontSubset { weight, reason: e.to_string() })?;
+    let mut id = IdHash::new();
     id.update(&subset);
     let base = format!("{}+{}", subset_tag(weight, &glyphs.remapper), postscript_name(weight));
-
-    pdf.type0_font(type0)
-        .base_font(Name(format!("{base}-Identity-H").as_bytes()))
-        .encoding_predefined(Name(b"Identity-H"))
-        .descendant_font(cid_font)
-        .to_unicode(cmap);
-
-    let mut cid = pdf.cid_font(cid_font);
-    cid.subtype(CidFontType::Type2)
-        .base_font(Name(base.as_bytes()))
-        .system_info(IDENTITY)
-        .font_descriptor(descriptor)
-        .cid_to_gid_map_predefined(Name(b"Identity"));
     // CIDs are 0..n in the order the remapper gives; .notdef is CID 0.
     let widths: Vec<f32> = glyphs
         .remapper
         .remapped_gids()
         .map(|gid| f32::from(font::advance_units(weight, gid)) * to_1000)
         .collect();
-    cid.widths().consecutive(0, widths);
-    cid.finish();
-
-    let bbox = face.global_bounding_box();
-    let mut flags = FontFlags::SYMBOLIC;
-    flags.set(FontFlags::FIXED_PITCH, face.is_monospaced());
-    flags.set(FontFlags::ITALIC, face.is_italic());
-    let ascent = f32::from(face.ascender());
-    pdf.font_descriptor(descriptor)
-        .name(Name(base.as_bytes()))
-        .flags(flags)
-        .bbox(Rect::new(
-            f32::from(bbox.x_min) * to_1000,
-            f32::from(bbox.y_min) * to_1000,
-            f32::from(bbox.x_max) * to_1000,
-            f32::from(bbox.y_max) * to_1000,
-        ))
-        .italic_angle(face.italic_angle())
-        .ascent(ascent * to_1000)
-        .descent(f32::from(face.descender()) * to_1000)
-        .cap_height(face.capital_height().map_or(ascent, f32::from) * to_1000)
-        .stem_v(stem_v_units(weight) * to_1000)
-        .font_file2(file);
-
-    let compressed = deflate(&subset);
     let length1 = i32::try_from(subset.len()).map_err(|_| RenderError::FontSubset {
         weight,
         reason: String::from("the subset is larger than a PDF integer"),
     })?;
-    pdf.stream(file, &compressed).filter(Filter::FlateDecode).pair(Name(b"Length1"), length1);
-
     let mut unicode = UnicodeCmap::new(Name(b"Custom"), IDENTITY);
     for (&gid, &ch) in &glyphs.chars {
         if let Some(cid) = glyphs.remapper.get(gid) {
             unicode.pair(cid, ch);
         }
     }
-    let cmap_bytes = unicode.finish();
-    pdf.stream(cmap, &deflate(&cmap_bytes)).filter(Filter::FlateDecode);
-    Ok(type0)
+    Ok(EmbeddedFace {
+        weight,
+        base,
+        widths,
+        file: z.deflate(&subset),
+        length1,
+        cmap: z.deflate(&unicode.finish()),
+        fingerprint: id.bytes(),
+    })
 }
 
 /// The face's PostScript name from its `name` table (`DejaVuSans`, `DejaVuSans-Bold`).
@@ -268,7 +295,7 @@ mod tests {
 
     #[test]
     fn only_used_faces_are_collected_and_cids_follow_glyph_order() {
-        let fonts = Fonts::collect(&text_scene(&[("ba", Weight::Regular)])).unwrap();
+        let fonts = Fonts::collect([&text_scene(&[("ba", Weight::Regular)])]).unwrap();
         assert_eq!(fonts.faces.keys().copied().collect::<Vec<_>>(), vec![Weight::Regular]);
         // 'a' has a lower glyph id than 'b' in DejaVu Sans, so CID 1 is 'a', CID 2 'b'.
         assert_eq!(fonts.encode(Weight::Regular, "ab").unwrap(), vec![0, 1, 0, 2]);
@@ -277,7 +304,7 @@ mod tests {
 
     #[test]
     fn subset_tags_are_six_capitals_and_stable() {
-        let fonts = Fonts::collect(&text_scene(&[("θ", Weight::Bold)])).unwrap();
+        let fonts = Fonts::collect([&text_scene(&[("θ", Weight::Bold)])]).unwrap();
         let tag = subset_tag(Weight::Bold, &fonts.faces[&Weight::Bold].remapper);
         assert_eq!(tag.len(), 6);
         assert!(tag.chars().all(|c| c.is_ascii_uppercase()), "{tag}");
