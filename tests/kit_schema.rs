@@ -420,7 +420,8 @@ fn every_field_has_a_description_unit_range_and_default() {
                 }
             }
         }
-        for (k, x) in m {
+        // Conditions (`if`/`then`, `not`) restate fields described elsewhere.
+        for (k, x) in m.iter().filter(|(k, _)| !matches!(k.as_str(), "if" | "then" | "else" | "not")) {
             match x {
                 Value::Object(_) => walk(&format!("{path}/{k}"), x, &[], problems),
                 Value::Array(list) => {
@@ -510,4 +511,86 @@ fn schema_prints_the_schema_and_writes_it_without_overwriting_the_teachers_file(
     let out = common::cli::raysheet(&["schema", "--out", "mine"], dir.path());
     common::cli::assert_code(&out, 2);
     assert_eq!(std::fs::read_to_string(mine.join("kit.schema.json")).expect("read"), "{}\n");
+}
+
+/// One field of the base kit and the values tried in it: (the line's start,
+/// lowest and highest value drawn, whole numbers only, whether the program's
+/// rule for it is the field's own). For a field whose rule needs another
+/// field too (a ray narrower than the spacing, a height inside its piece, a
+/// margin the paper leaves room for) the schema must accept whatever the
+/// program accepts; for the others, both must give the same verdict.
+const DRAWN: &[(&str, f64, f64, bool, bool)] = &[
+    ("rays = ", -3.0, 14.0, true, true),
+    ("spacing_mm = ", -5.0, 50.0, false, false),
+    ("ray_width_mm = ", -1.0, 12.0, false, false),
+    ("wavelength_nm = 600", 300.0, 900.0, false, true),
+    ("index = ", 0.5, 5.0, false, true),
+    ("grid_mm = ", -0.5, 6.0, false, true),
+    ("seed = ", -20.0, 1e9, true, true),
+    ("long_ruler_mm = ", 140.0, 210.0, false, true),
+    ("short_ruler_mm = ", 90.0, 150.0, false, true),
+    ("apex_deg = ", -10.0, 190.0, false, false),
+    ("side_mm = ", -10.0, 400.0, false, false),
+    ("thickness_mm = 40", -10.0, 400.0, false, true),
+    ("height_mm = 70", -10.0, 400.0, false, true),
+    ("half_chord_mm = ", -5.0, 40.0, false, false),
+    ("angles_deg = [20, 40]", -100.0, 100.0, false, true),
+    ("angles_deg = [40, 50]", -100.0, 100.0, false, true),
+    ("angles_deg = [10, 30]", -100.0, 100.0, false, true),
+    ("heights_mm = ", -40.0, 40.0, false, false),
+    ("margin_mm = ", -5.0, 120.0, false, false),
+    ("names = ", -5.0, 70.0, true, true),
+];
+
+/// The base kit with the line starting with `start` given `value`.
+fn with_value(start: &str, value: &str) -> String {
+    let at = BASE.find(start).expect("the field is in the base kit");
+    let end = at + BASE[at..].find('\n').expect("a line end");
+    let key = start.split(" = ").next().expect("a key");
+    let line = match key {
+        "angles_deg" | "heights_mm" => format!("{key} = [{value}]"),
+        "names" => format!("groups = {value}"),
+        _ => format!("{key} = {value}"),
+    };
+    format!("{}{line}{}", &BASE[..at], &BASE[end..])
+}
+
+static VALIDATOR: std::sync::OnceLock<jsonschema::Validator> = std::sync::OnceLock::new();
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(400))]
+    /// Random values, in range and out, in one field at a time: the schema
+    /// accepts every kit the program accepts, and refuses what the program
+    /// refuses wherever the program's rule is the field's own.
+    #[test]
+    fn random_values_get_the_programs_verdict(pick in 0usize..DRAWN.len(), u in 0.0f64..=1.0, edge in 0u8..4) {
+        let (start, lo, hi, whole, own) = DRAWN[pick];
+        let x = lo + u * (hi - lo);
+        // Now and then a value at a round number, where range ends lie.
+        let x = if edge == 0 || whole { x.round() } else { x };
+        let value = if whole { format!("{}", x as i64) } else { format!("{x:?}") };
+        let kit = with_value(start, &value);
+        let program = Lesson::from_toml(&kit, "copse.toml");
+        let v = VALIDATOR.get_or_init(validator);
+        let errors = schema_errors(v, &kit);
+        if let Err(e) = &program {
+            if own {
+                proptest::prop_assert!(!errors.is_empty(), "{start}{value}: the program refuses it ({e}), the schema accepts it");
+            }
+        } else {
+            proptest::prop_assert!(errors.is_empty(), "{start}{value}: the program accepts it, the schema refuses it: {}", errors.join("; "));
+        }
+    }
+}
+
+/// The one type JSON Schema cannot tell apart: TOML's `5.0` is a float, which
+/// the program refuses where a whole number is asked for, but in JSON 5.0 and
+/// 5 are the same number and draft 7 counts it an integer. Pinned here so the
+/// limit stays known (DEVELOPERS.md, "The kit schema").
+#[test]
+fn a_whole_number_written_with_a_point_is_refused_by_the_program_only() {
+    let kit = BASE.replacen("rays = 3", "rays = 3.0", 1);
+    let e = Lesson::from_toml(&kit, "copse.toml").expect_err("the program wants a whole number");
+    assert!(e.to_string().contains("expected a whole number"), "{e}");
+    assert!(schema_errors(&validator(), &kit).is_empty());
 }

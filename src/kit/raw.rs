@@ -15,8 +15,8 @@ use super::schema::{
 };
 use super::{MAX_COLOURS, MAX_GROUPS, MAX_RAY_SPACING_MM, MAX_RAY_WIDTH_MM};
 use crate::optics::MAX_INDEX;
-use crate::optics::MAX_PIECE_MM;
 use crate::optics::material::{D_LINE_NM, VISIBLE_NM};
+use crate::optics::{MAX_PIECE_MM, MIN_PIECE_MM};
 use crate::paper::{LONG_RULER_MM, SHORT_RULER_MM};
 
 /// A raysheet kit file: the optics pieces of a class set, the ray box, the
@@ -187,19 +187,22 @@ pub(super) struct RawPiece {
     #[schemars(schema_with = "face_schema")]
     pub back: Option<Spanned<toml::Value>>,
     /// Thickness along the optical axis (a lens shape's or block's; a
-    /// half-disc's is its radius). Required for lens shapes and blocks: no default.
+    /// half-disc's is its radius; a block's at least 10 mm). Required for
+    /// lens shapes and blocks: no default.
     #[schemars(with = "Option<f64>", extend("x-unit" = "mm", "exclusiveMinimum" = 0.0, "maximum" = MAX_PIECE_MM))]
     pub thickness_mm: Option<Spanned<f64>>,
     /// Height across the optical axis (a lens shape's or block's; a
-    /// half-disc's is its diameter). Required for lens shapes and blocks: no default.
+    /// half-disc's is its diameter; a block's at least 10 mm). Required for
+    /// lens shapes and blocks: no default.
     #[schemars(with = "Option<f64>", extend("x-unit" = "mm", "exclusiveMinimum" = 0.0, "maximum" = MAX_PIECE_MM))]
     pub height_mm: Option<Spanned<f64>>,
     /// A prism's apex angle, between its two equal faces (90 for a
     /// right-angle prism). Prisms only; required there, no default.
     #[schemars(with = "Option<f64>", extend("x-unit" = "deg", "exclusiveMinimum" = 0.0, "exclusiveMaximum" = 180.0))]
     pub apex_deg: Option<Spanned<f64>>,
-    /// Length of a prism's two equal faces. Prisms only; required there, no default.
-    #[schemars(with = "Option<f64>", extend("x-unit" = "mm", "exclusiveMinimum" = 0.0, "maximum" = MAX_PIECE_MM))]
+    /// Length of a prism's two equal faces; its base (2·side·sin(apex/2))
+    /// must also be 10 to 300 mm. Prisms only; required there, no default.
+    #[schemars(with = "Option<f64>", extend("x-unit" = "mm", "minimum" = MIN_PIECE_MM, "maximum" = MAX_PIECE_MM))]
     pub side_mm: Option<Spanned<f64>>,
 }
 

@@ -11,6 +11,7 @@ use schemars::{Schema, SchemaGenerator, json_schema};
 use serde_json::{Map, Value, json};
 
 use super::raw::RawKit;
+use crate::optics::MIN_PIECE_MM;
 use crate::paper::NAMED_SIZES;
 
 /// Text without control characters (`char::is_control`: U+0000–U+001F and
@@ -105,8 +106,15 @@ pub(super) fn face_schema(_: &mut SchemaGenerator) -> Schema {
 pub(super) fn piece_shapes() -> Value {
     let all = ["front", "back", "thickness_mm", "height_mm", "apex_deg", "side_mm"];
     let rule = |shape: &str, wanted: &[&str]| {
-        let refused: Map<String, Value> =
+        let mut refused: Map<String, Value> =
             all.iter().filter(|f| !wanted.contains(f)).map(|f| (f.to_string(), Value::Bool(false))).collect();
+        // A block's sides and a prism's are at least MIN_PIECE_MM (a lens
+        // shape's thickness and height only above 0).
+        if shape != "lens" {
+            for f in wanted.iter().filter(|f| **f != "apex_deg") {
+                refused.insert(f.to_string(), json!({ "minimum": MIN_PIECE_MM }));
+            }
+        }
         let mut test = json!({ "properties": { "shape": { "const": shape } } });
         if shape != "lens" {
             // A piece without `shape` is a lens shape.
