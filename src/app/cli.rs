@@ -47,7 +47,6 @@ pub enum Command {
         #[command(flatten)]
         class: ClassArgs,
     },
-    /// Write the shipped sheet text (instructions, table headings, caution) into a folder to edit.
     /// Write the printer-check page: two rulers to measure, for [printer] in the kit.
     Calibrate {
         /// Folder to write calibration.pdf and calibration.svg into.
@@ -91,6 +90,7 @@ pub enum Command {
         #[arg(long)]
         force: bool,
     },
+    /// Write the shipped sheet text (instructions, table headings, caution) into a folder to edit.
     Templates {
         /// The folder to write them into.
         #[arg(long)]
@@ -101,6 +101,24 @@ pub enum Command {
     },
     /// List the built-in materials (`catalog = "…"` in a kit) with their sources and n at 486.1, 587.6 and 656.3 nm.
     Materials,
+    /// Print the kit file's JSON Schema, which TOML-aware editors use to complete and check a kit as it is typed.
+    Schema {
+        /// Write it as kit.schema.json into this folder instead of printing it.
+        #[arg(long, value_name = "DIR")]
+        out: Option<PathBuf>,
+        /// Overwrite a kit.schema.json there that raysheet did not write.
+        #[arg(long, requires = "out")]
+        force: bool,
+    },
+    /// List every sheet kind: the pieces it fits and the fields it reads.
+    Kinds,
+    /// Print shell completions for raysheet (load them in your shell's start-up file).
+    Completions {
+        /// The shell: bash, zsh, fish or powershell.
+        shell: clap_complete::Shell,
+    },
+    /// Print raysheet's manual page (roff; read it with `man -l FILE`).
+    Manual,
     /// Build the embedded demo kit (no kit file needed).
     Demo {
         #[command(flatten)]

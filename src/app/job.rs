@@ -81,7 +81,11 @@ pub fn wanted(command: &Command) -> Wanted {
         Command::Demo { print_kit: true, .. }
         | Command::Templates { .. }
         | Command::Calibrate { .. }
-        | Command::Materials => Wanted::default(),
+        | Command::Materials
+        | Command::Schema { .. }
+        | Command::Kinds
+        | Command::Completions { .. }
+        | Command::Manual => Wanted::default(),
         Command::Fit { kit, results, answers, .. } => {
             let answers = answers
                 .clone()
@@ -221,6 +225,19 @@ pub enum Job {
     PrintDemoKit,
     /// Print the built-in materials.
     ListMaterials,
+    /// Print the kit file's JSON Schema, or write it into `dir`.
+    Schema {
+        /// The folder to write kit.schema.json into; `None`: print it.
+        dir: Option<PathBuf>,
+        /// Overwrite a kit.schema.json there that raysheet did not write.
+        force: bool,
+    },
+    /// Print the sheet kinds.
+    ListKinds,
+    /// Print shell completions.
+    Completions(clap_complete::Shell),
+    /// Print the manual page.
+    Manual,
 }
 
 impl Job {
@@ -285,6 +302,10 @@ impl Job {
             }
             Command::Demo { print_kit: true, .. } => Ok(Job::PrintDemoKit),
             Command::Materials => Ok(Job::ListMaterials),
+            Command::Schema { out, force } => Ok(Job::Schema { dir: out, force }),
+            Command::Kinds => Ok(Job::ListKinds),
+            Command::Completions { shell } => Ok(Job::Completions(shell)),
+            Command::Manual => Ok(Job::Manual),
             Command::Demo { out, class, .. } => {
                 let kit = Lesson::from_toml(demo::DEMO_KIT, demo::DEMO_NAME)
                     .map_err(|e| Failure::Other(format!("the embedded demo kit is invalid: {e}")))?;

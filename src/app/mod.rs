@@ -8,7 +8,7 @@ pub mod job;
 pub mod run;
 
 pub use job::{Inputs, Job, Source, Wanted};
-pub use run::{Outcome, Writing, run};
+pub use run::{Outcome, SCHEMA_FILE, Writing, run, schema_text};
 
 /// What went wrong, and which kind of exit it earns.
 #[derive(Clone, Debug, PartialEq, Eq)]

@@ -3,6 +3,8 @@
 
 use std::path::PathBuf;
 
+use clap::CommandFactory;
+
 use super::Failure;
 use super::job::{BuildJob, ClassSetup, Job};
 use crate::demo;
@@ -32,6 +34,19 @@ enum Written {
     Grades,
     /// The printer-check page.
     Calibration,
+    /// The kit file's JSON Schema.
+    Schema,
+}
+
+/// The file `raysheet schema --out DIR` writes, and the demo kit's
+/// `#:schema` line names beside it.
+pub const SCHEMA_FILE: &str = "kit.schema.json";
+
+/// The kit file's JSON Schema as text (pretty, ending in a newline).
+pub fn schema_text() -> String {
+    let mut s = serde_json::to_string_pretty(&sheets::kit_schema()).expect("a JSON value always serializes");
+    s.push('\n');
+    s
 }
 
 /// Files to write into a folder, and what to say once they are written.
@@ -59,6 +74,7 @@ impl Writing {
             Written::Templates => "templates",
             Written::Grades => "grades",
             Written::Calibration => "calibration",
+            Written::Schema => "schema",
         }
     }
 
@@ -93,6 +109,13 @@ impl Writing {
                 for w in written {
                     s.push_str(&format!("  {}\n", w.display()));
                 }
+            }
+            Written::Schema => {
+                s.push_str(&format!("Wrote {} file(s) to {dir}:\n", written.len()));
+                for w in written {
+                    s.push_str(&format!("  {}\n", w.display()));
+                }
+                s.push_str("Put a kit beside it starting with the line `#:schema ./kit.schema.json` (the demo kit has it).\n");
             }
             Written::Templates => {
                 s.push_str(&format!("Wrote {} template files to {dir}:\n", written.len()));
@@ -194,6 +217,32 @@ pub fn run(job: Job) -> Result<Outcome, Failure> {
         }
         Job::PrintDemoKit => Ok(Outcome::Print(demo::DEMO_KIT.to_string())),
         Job::ListMaterials => Ok(Outcome::Print(report::materials_report())),
+        Job::Schema { dir: None, .. } => Ok(Outcome::Print(schema_text())),
+        Job::Schema { dir: Some(dir), force } => Ok(Outcome::Write(Writing {
+            dir,
+            files: vec![Output { path: SCHEMA_FILE.into(), bytes: schema_text().into_bytes() }],
+            force,
+            warnings: Vec::new(),
+            what: Written::Schema,
+            overview: String::new(),
+        })),
+        Job::ListKinds => Ok(Outcome::Print(report::kinds_report())),
+        Job::Completions(shell) => {
+            let mut bytes = Vec::new();
+            clap_complete::generate(shell, &mut super::cli::Cli::command(), "raysheet", &mut bytes);
+            String::from_utf8(bytes)
+                .map(Outcome::Print)
+                .map_err(|e| Failure::Other(format!("the {shell} completions are not UTF-8: {e}")))
+        }
+        Job::Manual => {
+            let mut bytes = Vec::new();
+            clap_mangen::Man::new(super::cli::Cli::command())
+                .render(&mut bytes)
+                .map_err(|e| Failure::Other(format!("cannot make the manual page: {e}")))?;
+            String::from_utf8(bytes)
+                .map(Outcome::Print)
+                .map_err(|e| Failure::Other(format!("the manual page is not UTF-8: {e}")))
+        }
     }
 }
 

@@ -10,6 +10,7 @@ mod error;
 mod fields;
 mod group_name;
 mod raw;
+mod schema;
 
 use std::collections::BTreeMap;
 
@@ -18,6 +19,7 @@ use error::Locator;
 pub use fields::{COMMON_SHEET_FIELDS, Located, Place, SheetEntry};
 pub use group_name::{MAX_NAME_CHARS, group_name_problem, normal_group_name};
 use raw::{NESTED_TABLES, RawKit, RawPiece, TABLE_FIELDS};
+pub use schema::kit_schema;
 use toml::Spanned;
 
 use crate::optics::material::{Dispersion, Material, MaterialError, VISIBLE_NM, published_words};

@@ -231,3 +231,24 @@ pub fn materials_report() -> String {
     );
     s
 }
+
+/// The `kinds` listing: every sheet kind, from the kind modules themselves:
+/// its kit word and title, the pieces it fits, and every field it reads with
+/// its type, unit, range and default.
+pub fn kinds_report() -> String {
+    use crate::sheets::{SHARED_FIELDS, SheetKind};
+    let mut s = String::new();
+    let _ = writeln!(s, "Sheet kinds (kind = \"…\" in a [[sheets]] table, with piece = \"ID\"):");
+    for kind in SheetKind::ALL {
+        let def = kind.def();
+        let _ = writeln!(s, "\n{}: {}", def.word(), def.title());
+        let _ = writeln!(s, "  fits: {}", def.fits());
+        for f in def.fields() {
+            let _ = writeln!(s, "  {}", f.words());
+        }
+    }
+    let shared: Vec<String> = SHARED_FIELDS.iter().map(|f| f.words()).collect();
+    let _ = writeln!(s, "\nEvery kind also reads {}", shared.join("; "));
+    let _ = writeln!(s, "`raysheet schema` gives each field's meaning, unit, range and default for editors.");
+    s
+}

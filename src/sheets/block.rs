@@ -7,6 +7,7 @@ use serde_json::json;
 
 use super::angled::{AngleRange, AngleRules, AngledPlan, AngledSetup, Expected, spread_in_band};
 use super::angled_view::{self as av, angle, with_range};
+use super::field::{Bound, FieldValue, SheetField};
 use super::{
     Choice, Detail, Enter, Kind, Prepared, Setup, SheetKind, SheetPlan, SheetSpec, SheetView, SummaryRow,
 };
@@ -63,8 +64,20 @@ impl Kind for BlockKind {
     fn title(&self) -> &'static str {
         "Sideways shift through a rectangular block"
     }
-    fn fields(&self) -> &'static [&'static str] {
-        &["angles_deg"]
+    fn fields(&self) -> &'static [SheetField] {
+        &[SheetField {
+            name: "angles_deg",
+            about: "Fixed angles of incidence at the middle of the entry face, from its normal. Default: 30, 45 and 60 where the safe band has them, else three spread across it; chosen for each group of a class set.",
+            value: FieldValue::Numbers {
+                unit: "deg",
+                min: Bound::Incl(0.0),
+                max: Bound::Incl(89.9),
+                most: 9,
+            },
+        }]
+    }
+    fn fits(&self) -> &'static str {
+        "a rectangular block"
     }
     fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         let kp = &kit.pieces[s.piece];

@@ -8,6 +8,7 @@ use serde_json::{Map, Value, json};
 
 use super::angled::AngleRules;
 use super::angled_view::{angle, undefined_words};
+use super::field::{Bound, FieldValue, SheetField};
 use super::protractor::{ProtractorPlan, ProtractorRay, ProtractorSetup, RayOutcome, Side};
 use super::{
     Choice, Detail, Enter, Kind, Prepared, Setup, SheetKind, SheetPlan, SheetSpec, SheetView, SummaryRow,
@@ -39,6 +40,35 @@ const FLAT_HIGH_DEG: f64 = 70.0;
 const MIN_APART_DEG: f64 = 6.0;
 /// How far a critical-angle sheet's rays may lie from θc, degrees.
 const CRITICAL_REACH_DEG: f64 = 5.0;
+
+/// Angles of incidence on a protractor sheet.
+const ANGLES: SheetField = SheetField {
+    name: "angles_deg",
+    about: "Fixed angles of incidence from the normal at the flat face's centre, up to (not including) 90. Default: chosen for the sheet (index: spread from 5° up; critical angle: either side of it) and for each group of a class set.",
+    value: FieldValue::Numbers { unit: "deg", min: Bound::Incl(0.0), max: Bound::Excl(90.0), most: 9 },
+};
+
+const INDEX_FIELDS: &[SheetField] = &[
+    SheetField {
+        name: "enter",
+        about: "Where the light enters the half-disc: \"curved\" (along a radius, refracted at the flat face from inside) or \"flat\" (at the flat face's centre, from air).",
+        value: FieldValue::Word { choices: &["curved", "flat"], default: "curved" },
+    },
+    ANGLES,
+];
+
+const CRITICAL_FIELDS: &[SheetField] = &[
+    SheetField {
+        name: "enter",
+        about: "Where the light enters the half-disc: always \"curved\" (along a radius) on a critical-angle sheet.",
+        value: FieldValue::Word { choices: &["curved"], default: "curved" },
+    },
+    ANGLES,
+];
+
+/// What both protractor kinds fit.
+const HALF_DISC: &str =
+    "a half-disc (one flat face, one convex face of radius R, thickness_mm = R, height_mm = 2R)";
 
 /// Checks an index or critical-angle sheet table: a half-disc, the entry
 /// face, angles 0–90°.
@@ -127,8 +157,11 @@ impl Kind for IndexKind {
     fn title(&self) -> &'static str {
         "Index of refraction at a protractor"
     }
-    fn fields(&self) -> &'static [&'static str] {
-        &["enter", "angles_deg"]
+    fn fields(&self) -> &'static [SheetField] {
+        INDEX_FIELDS
+    }
+    fn fits(&self) -> &'static str {
+        HALF_DISC
     }
     fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(SheetKind::Index, s, kit)
@@ -150,8 +183,11 @@ impl Kind for CriticalKind {
     fn title(&self) -> &'static str {
         "The critical angle at a protractor"
     }
-    fn fields(&self) -> &'static [&'static str] {
-        &["enter", "angles_deg"]
+    fn fields(&self) -> &'static [SheetField] {
+        CRITICAL_FIELDS
+    }
+    fn fits(&self) -> &'static str {
+        HALF_DISC
     }
     fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(SheetKind::CriticalAngle, s, kit)

@@ -15,6 +15,7 @@ pub mod angled_view;
 pub mod block;
 mod class;
 pub mod deviation_plot;
+pub mod field;
 pub mod index;
 pub mod lens;
 pub mod prism;
@@ -25,7 +26,8 @@ pub mod radius_drawing;
 mod spec;
 
 pub use class::{ClassPlan, plan_class};
-pub use spec::{Choice, Enter, Lesson, SheetSpec};
+pub use field::SheetField;
+pub use spec::{Choice, Enter, Lesson, SHARED_FIELDS, SheetSpec};
 
 use crate::draw::{Drawing, Words};
 use crate::kit::{Kit, KitError, SheetEntry};
@@ -92,6 +94,46 @@ impl SheetKind {
     }
 }
 
+/// The kit file's JSON Schema: the kit's own tables from `kit`, and a
+/// `[[sheets]]` table as one of the kinds' tables, each made from its kind's
+/// own field list (with `kind`, `piece` and [`SHARED_FIELDS`]).
+pub fn kit_schema() -> serde_json::Value {
+    use serde_json::{Map, Value, json};
+    let words: Vec<&str> = SheetKind::ALL.iter().map(|k| k.as_str()).collect();
+    let branches: Vec<Value> = SheetKind::ALL
+        .iter()
+        .map(|k| {
+            let def = k.def();
+            let mut props = Map::new();
+            props.insert(
+                "kind".into(),
+                json!({ "description": format!("{}: {}.", def.title(), def.fits()), "const": def.word() }),
+            );
+            props.insert(
+                "piece".into(),
+                json!({ "description": "The id of the piece this sheet uses (a [[pieces]] table of this kit).", "type": "string" }),
+            );
+            for f in def.fields().iter().chain(SHARED_FIELDS) {
+                props.insert(f.name.into(), f.schema());
+            }
+            json!({
+                "title": def.word(),
+                "type": "object",
+                "additionalProperties": false,
+                "required": ["kind", "piece"],
+                "properties": props,
+            })
+        })
+        .collect();
+    crate::kit::kit_schema(json!({
+        "description": format!("One sheet to print: kind is one of {}.", words.join(", ")),
+        "type": "object",
+        "required": ["kind", "piece"],
+        "properties": { "kind": { "enum": words } },
+        "oneOf": branches,
+    }))
+}
+
 /// What a sheet kind does before layout: check a kit's sheet table, and
 /// prepare plans (one, or one per group of a class).
 pub trait Kind: Sync {
@@ -99,8 +141,12 @@ pub trait Kind: Sync {
     fn word(&self) -> &'static str;
     /// A title for the sheet.
     fn title(&self) -> &'static str;
-    /// The fields a sheet table of this kind accepts besides `kind` and `piece`.
-    fn fields(&self) -> &'static [&'static str];
+    /// The fields a sheet table of this kind accepts besides `kind`, `piece`
+    /// and [`SHARED_FIELDS`], each with its meaning, unit, range and default
+    /// (the kit file's schema and `raysheet kinds` are made from them).
+    fn fields(&self) -> &'static [SheetField];
+    /// The pieces the kind fits, in words (`raysheet kinds`).
+    fn fits(&self) -> &'static str;
     /// Checks a sheet table against the kit: the piece fits, every field is
     /// accepted and usable. Errors point at the file, line and field.
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError>;

@@ -9,6 +9,7 @@ use serde_json::{Value, json};
 use super::angled::{AngleLimit, AngleRules, AngledPlan, AngledSetup, Expected, spread_in_band};
 use super::angled_view::{self as av, angle, with_range};
 use super::block::angle_warnings;
+use super::field::{Bound, FieldValue, SheetField};
 use super::{
     Choice, Detail, Enter, Kind, Prepared, Setup, SheetKind, SheetPlan, SheetSpec, SheetView, SummaryRow,
 };
@@ -177,8 +178,27 @@ impl Kind for PrismKind {
     fn title(&self) -> &'static str {
         "Deviation by a prism"
     }
-    fn fields(&self) -> &'static [&'static str] {
-        &["enter", "angles_deg"]
+    fn fields(&self) -> &'static [SheetField] {
+        &[
+            SheetField {
+                name: "enter",
+                about: "Where the light enters: \"side\" (one of the equal faces) or \"base\" (the hypotenuse of a right-angle prism, which turns the light by total internal reflection).",
+                value: FieldValue::Word { choices: &["side", "base"], default: "side" },
+            },
+            SheetField {
+                name: "angles_deg",
+                about: "Fixed signed angles of incidence from the entry face's normal (positive toward the base). Default: up to four on a 5° grid either side of minimum deviation, or normal incidence for a turn; chosen for each group of a class set.",
+                value: FieldValue::Numbers {
+                    unit: "deg",
+                    min: Bound::Incl(-89.9),
+                    max: Bound::Incl(89.9),
+                    most: 9,
+                },
+            },
+        ]
+    }
+    fn fits(&self) -> &'static str {
+        "a prism (enter = \"base\": a right-angle prism)"
     }
     fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         let kp = &kit.pieces[s.piece];

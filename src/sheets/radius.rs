@@ -12,13 +12,14 @@ use std::fmt::Write;
 
 use serde_json::{Value, json};
 
+use super::field::{Bound, FieldValue, SheetField};
 use super::{
     Choice, Detail, Enter, Kind, Prepared, Setup, SheetKind, SheetPlan, SheetSpec, SheetView, SummaryRow,
 };
 use crate::draw::{Drawing, Words};
 use crate::geom::{Point, Ray, Shape, Vec2};
 use crate::kit::{Kit, KitError, SheetEntry};
-use crate::optics::{Boundary, Entry, Face, Lens, Outline, Paraxial, Piece};
+use crate::optics::{Boundary, Entry, Face, Lens, MAX_PIECE_MM, Outline, Paraxial, Piece};
 use crate::paper::PaperSpec;
 use crate::plan::fmt1;
 use crate::plan::scan::grid_values;
@@ -137,8 +138,19 @@ impl Kind for RadiusKind {
     fn title(&self) -> &'static str {
         "Radius of curvature by tracing"
     }
-    fn fields(&self) -> &'static [&'static str] {
-        &["half_chord_mm"]
+    fn fields(&self) -> &'static [SheetField] {
+        &[SheetField {
+            name: "half_chord_mm",
+            about: "Half the chord's length: the chord joins the traced outline's points this far above and below the axis; from 3 up to (not including) the piece's half height. Default: 80 % of the half height, to the whole millimetre below; varied for each group of a class set.",
+            value: FieldValue::Number {
+                unit: "mm",
+                min: Bound::Incl(3.0),
+                max: Bound::Excl(MAX_PIECE_MM / 2.0),
+            },
+        }]
+    }
+    fn fits(&self) -> &'static str {
+        "a lens shape with at least one curved face"
     }
     fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         let kp = &kit.pieces[s.piece];

@@ -2,6 +2,7 @@
 //! lesson: a kit with all its sheets checked by their kinds.
 
 use super::SheetKind;
+use super::field::{FieldValue, SheetField};
 use crate::kit::{Kit, KitError, SheetEntry};
 
 /// The face the light meets first, as the kit names it.
@@ -120,7 +121,8 @@ impl Lesson {
             // kind does not take.
             let spec = kind.def().check(entry, &kit)?;
             check_all_colours(entry, &kit)?;
-            let accepted: Vec<&str> = kind.def().fields().iter().chain(SHARED_FIELDS).copied().collect();
+            let accepted: Vec<&str> =
+                kind.def().fields().iter().chain(SHARED_FIELDS).map(|f| f.name).collect();
             entry.reject_unknown(&accepted)?;
             sheets.push(spec);
         }
@@ -129,7 +131,11 @@ impl Lesson {
 }
 
 /// Fields every kind of sheet accepts besides `kind` and `piece`, checked here.
-pub const SHARED_FIELDS: &[&str] = &["all_colours"];
+pub const SHARED_FIELDS: &[SheetField] = &[SheetField {
+    name: "all_colours",
+    about: "Trace every guide ray in every colour of the ray box (needs a material with dispersion and two colours or more). Not made yet: only false is accepted for now.",
+    value: FieldValue::Flag { default: false, only: Some(false) },
+}];
 
 /// `all_colours = true`: every guide ray traced in every colour of the ray box.
 /// Needs a material with dispersion and at least two colours; the colour

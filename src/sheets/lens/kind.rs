@@ -3,10 +3,12 @@
 
 use super::{SafeBand, lead_in_for, lens_of, plan_sheet_in_band, rules_for, safe_band};
 use crate::kit::{Kit, KitError, SheetEntry};
+use crate::optics::MAX_PIECE_MM;
 use crate::optics::{Entry, Outline, Paraxial};
 use crate::paper::PaperSpec;
 use crate::plan::scan::grid_values;
 use crate::plan::to_grid;
+use crate::sheets::field::{Bound, FieldValue, SheetField};
 use crate::sheets::{Choice, Enter, Kind, Prepared, SheetKind, SheetPlan, SheetSpec};
 
 /// Single guide rays: flat face first, refraction at the curved face.
@@ -19,7 +21,44 @@ pub static CURVED_FACE: CurvedFaceKind = CurvedFaceKind;
 /// The focal kind.
 pub static FOCAL: FocalKind = FocalKind;
 
-const FIELDS: &[&str] = &["enter", "heights_mm", "vary_entry"];
+/// The face the light meets first.
+const ENTER: SheetField = SheetField {
+    name: "enter",
+    about: "The face of the lens shape the light meets first: its \"front\" or its \"back\" face.",
+    value: FieldValue::Word { choices: &["front", "back"], default: "front" },
+};
+
+/// Fixed guide heights (else chosen in the safe band).
+const HEIGHTS: SheetField = SheetField {
+    name: "heights_mm",
+    about: "Fixed guide-ray heights above (+) or below (-) the optical axis, each inside the piece's half height. Default: chosen in the safe band, and for each group of a class set.",
+    value: FieldValue::Numbers {
+        unit: "mm",
+        min: Bound::Excl(-MAX_PIECE_MM / 2.0),
+        max: Bound::Excl(MAX_PIECE_MM / 2.0),
+        most: 9,
+    },
+};
+
+const CURVED_FACE_FIELDS: &[SheetField] = &[
+    ENTER,
+    HEIGHTS,
+    SheetField {
+        name: "vary_entry",
+        about: "Whether a class set's groups may get the piece turned round; a curved-face sheet is always entered through its flat face, so only false is accepted.",
+        value: FieldValue::Flag { default: false, only: Some(false) },
+    },
+];
+
+const FOCAL_FIELDS: &[SheetField] = &[
+    ENTER,
+    HEIGHTS,
+    SheetField {
+        name: "vary_entry",
+        about: "Whether a class set's groups may get the piece turned round (entered from the other face).",
+        value: FieldValue::Flag { default: false, only: None },
+    },
+];
 
 /// The kit's word for a lens entry side.
 pub fn enter_of(entry: Entry) -> Enter {
@@ -40,8 +79,11 @@ impl Kind for CurvedFaceKind {
     fn title(&self) -> &'static str {
         "Refraction at a curved face"
     }
-    fn fields(&self) -> &'static [&'static str] {
-        FIELDS
+    fn fields(&self) -> &'static [SheetField] {
+        CURVED_FACE_FIELDS
+    }
+    fn fits(&self) -> &'static str {
+        "a lens shape with one flat and one curved face, entered through the flat face (a half-disc, a plano-convex or plano-concave shape)"
     }
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(SheetKind::CurvedFace, entry, kit)
@@ -58,8 +100,11 @@ impl Kind for FocalKind {
     fn title(&self) -> &'static str {
         "Focal length of a lens shape"
     }
-    fn fields(&self) -> &'static [&'static str] {
-        FIELDS
+    fn fields(&self) -> &'static [SheetField] {
+        FOCAL_FIELDS
+    }
+    fn fits(&self) -> &'static str {
+        "a lens shape with a focal length (converging or diverging)"
     }
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(SheetKind::Focal, entry, kit)
