@@ -739,6 +739,17 @@ proptest! {
     }
 }
 
+/// Regression: a 58.4 mm half-disc's curved-face sheet on A4 with one ray
+/// 4 mm from its neighbours' places: the "ray box here" label covered
+/// marks on its tiles (found by the random kits above).
+#[test]
+fn ray_box_label_over_tile_marks() {
+    let text = random_kit(0, 0.9601691469374969, 0.0, 0.0, 1.4788807714844336, 1, "A4");
+    let lesson = Lesson::from_toml(&text, "random.toml").expect("valid");
+    let defects = kit_defects(&lesson);
+    assert!(defects.is_empty(), "{text}\n{}", defects.join("\n"));
+}
+
 /// Regression: the key's gauge page named a meniscus's back face (R = 237 mm)
 /// with a label crossed by a gauge arc, since the faces' own arcs were not
 /// yet kept clear of labels when the labels were placed (found by the random

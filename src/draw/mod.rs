@@ -17,7 +17,7 @@ pub mod words;
 pub use fan::{AngleScale, AngleTicks, ScaleNumber, Tick, TickSize, angle_ticks};
 pub use labels::{Placer, clip_segment, place_lines_near, place_near};
 pub use outline::{path_points, shape_outline};
-pub use text::{leading, text, text_box, wrap};
+pub use text::{leading, text, text_box, turned_text_box, wrap};
 pub use words::Words;
 
 use crate::geom::Point;

@@ -22,6 +22,34 @@ pub fn text_box(at: Point, s: &str, size_pt: f64, weight: Weight, anchor: Anchor
     Rect { min: Point::new(x0, at.y - 0.24 * em), max: Point::new(x0 + w, at.y + 0.76 * em) }
 }
 
+/// The upright box round a text turned `rotate_deg` counterclockwise about
+/// its anchor point `at` (page frame, y up): [`text_box`] when it is not
+/// turned.
+pub fn turned_text_box(
+    at: Point,
+    s: &str,
+    size_pt: f64,
+    weight: Weight,
+    anchor: Anchor,
+    rotate_deg: f64,
+) -> Rect {
+    let b = text_box(at, s, size_pt, weight, anchor);
+    if rotate_deg == 0.0 {
+        return b;
+    }
+    let (sin, cos) = rotate_deg.to_radians().sin_cos();
+    let turned = [b.min, Point::new(b.max.x, b.min.y), b.max, Point::new(b.min.x, b.max.y)].map(|p| {
+        let (x, y) = (p.x - at.x, p.y - at.y);
+        Point::new(at.x + x * cos - y * sin, at.y + x * sin + y * cos)
+    });
+    let (mut min, mut max) = (turned[0], turned[0]);
+    for p in &turned[1..] {
+        min = Point::new(min.x.min(p.x), min.y.min(p.y));
+        max = Point::new(max.x.max(p.x), max.y.max(p.y));
+    }
+    Rect { min, max }
+}
+
 /// Closing punctuation: a token of only these ends the word before it.
 const CLOSING: &str = ".,;:!?)]}»›”’\"'…%";
 /// Opening punctuation: a token of only these belongs to the word after it.

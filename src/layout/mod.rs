@@ -523,11 +523,11 @@ fn labels_inside(items: &[Item], bounds: &Rect, w: &Words) -> Result<(), Misfit>
     Ok(())
 }
 
-/// The box of a horizontal text item (a label), in its own frame.
+/// The upright box of a text item (a label, turned or not), in its own frame.
 fn label_box(item: &Item) -> Option<Rect> {
     match item {
-        Item::Text { at, text: s, size_pt, weight, anchor, rotate_deg, .. } if *rotate_deg == 0.0 => {
-            Some(crate::draw::text_box(*at, s, *size_pt, *weight, *anchor))
+        Item::Text { at, text: s, size_pt, weight, anchor, rotate_deg, .. } => {
+            Some(crate::draw::turned_text_box(*at, s, *size_pt, *weight, *anchor, *rotate_deg))
         }
         _ => None,
     }
