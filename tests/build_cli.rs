@@ -543,10 +543,13 @@ fn unbounded_input_reads_dev_zero() {
 }
 
 /// Every file under `dir` with its bytes, raysheet's bookkeeping left out.
+/// The files of a set, without raysheet's own working files (its staging
+/// folder, journal, list, and the temporary `.NAME.<hex>.raysheet-part` of a
+/// file being written, the journal's included).
 fn contents(dir: &Path) -> std::collections::BTreeMap<String, Vec<u8>> {
     outputs(dir)
         .into_iter()
-        .filter(|f| !f.starts_with(".raysheet"))
+        .filter(|f| !f.starts_with(".raysheet") && !f.ends_with(".raysheet-part"))
         .map(|f| {
             let bytes = std::fs::read(dir.join(&f)).unwrap();
             (f, bytes)
