@@ -21,14 +21,28 @@ use crate::plan::fmt1;
 use crate::plan::scan::grid_values;
 use crate::scene::{Item, Rect};
 
-/// The index kind.
-pub struct IndexKind;
+/// A sheet kind at a printed protractor: the index and the critical-angle
+/// kinds share everything but their word, title, fields and ray choice.
+pub struct ProtractorKind {
+    kind: SheetKind,
+    word: &'static str,
+    title: &'static str,
+    fields: &'static [SheetField],
+}
 /// The index kind, for the kind list.
-pub static INDEX: IndexKind = IndexKind;
-/// The critical-angle kind.
-pub struct CriticalKind;
+pub static INDEX: ProtractorKind = ProtractorKind {
+    kind: SheetKind::Index,
+    word: "index",
+    title: "Index of refraction at a protractor",
+    fields: INDEX_FIELDS,
+};
 /// The critical-angle kind, for the kind list.
-pub static CRITICAL: CriticalKind = CriticalKind;
+pub static CRITICAL: ProtractorKind = ProtractorKind {
+    kind: SheetKind::CriticalAngle,
+    word: "critical-angle",
+    title: "The critical angle at a protractor",
+    fields: CRITICAL_FIELDS,
+};
 
 /// Lowest angle an index sheet's variants use, degrees (our choice: below it
 /// the refraction is too small to read well).
@@ -150,47 +164,21 @@ fn side_of(enter: Enter) -> Side {
     if enter == Enter::Flat { Side::Flat } else { Side::Curved }
 }
 
-impl Kind for IndexKind {
+impl Kind for ProtractorKind {
     fn word(&self) -> &'static str {
-        "index"
+        self.word
     }
     fn title(&self) -> &'static str {
-        "Index of refraction at a protractor"
+        self.title
     }
     fn fields(&self) -> &'static [SheetField] {
-        INDEX_FIELDS
+        self.fields
     }
     fn fits(&self) -> &'static str {
         HALF_DISC
     }
     fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
-        check(SheetKind::Index, s, kit)
-    }
-    fn prepare<'a>(
-        &self,
-        kit: &'a Kit,
-        spec: &'a SheetSpec,
-        _paper: &'a PaperSpec,
-    ) -> Box<dyn Prepared + 'a> {
-        Box::new(ProtractorPrepared::new(kit, spec))
-    }
-}
-
-impl Kind for CriticalKind {
-    fn word(&self) -> &'static str {
-        "critical-angle"
-    }
-    fn title(&self) -> &'static str {
-        "The critical angle at a protractor"
-    }
-    fn fields(&self) -> &'static [SheetField] {
-        CRITICAL_FIELDS
-    }
-    fn fits(&self) -> &'static str {
-        HALF_DISC
-    }
-    fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
-        check(SheetKind::CriticalAngle, s, kit)
+        check(self.kind, s, kit)
     }
     fn prepare<'a>(
         &self,
