@@ -14,6 +14,7 @@ pub mod angled_drawing;
 pub mod angled_view;
 pub mod block;
 mod class;
+pub mod colours;
 pub mod deviation_plot;
 pub mod index;
 pub mod lens;
@@ -104,6 +105,11 @@ pub trait Kind: Sync {
     /// Checks a sheet table against the kit: the piece fits, every field is
     /// accepted and usable. Errors point at the file, line and field.
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError>;
+    /// Whether `all_colours = true` is taken: the plans answer
+    /// [`SheetView::colour_paths`].
+    fn takes_colours(&self) -> bool {
+        false
+    }
     /// Works out what every plan of this sheet shares (safe bands, once).
     fn prepare<'a>(&self, kit: &'a Kit, spec: &'a SheetSpec, paper: &'a PaperSpec) -> Box<dyn Prepared + 'a>;
 }
@@ -169,6 +175,10 @@ pub struct SheetPlan {
     pub warnings: Vec<String>,
     /// What is particular to the kind.
     pub detail: Detail,
+    /// With `all_colours = true`: every colour's traces (see [`colours`]).
+    pub colours: Option<colours::ColourSet>,
+    /// The paper the material's formula comes from, for a built-in material.
+    pub source: Option<&'static str>,
 }
 
 /// The kind-particular part of a plan.
@@ -309,6 +319,19 @@ pub trait SheetView {
     /// The exact curve the class's measurements of this sheet are plotted
     /// against when marking, if the sheet has one.
     fn class_curve(&self) -> Option<ClassCurve>;
+    /// Every guide ray traced again with the piece's index replaced by
+    /// `index` (a colour's), as (letter, path in the sheet frame as the key
+    /// draws it: from the ray box to its drawn end); `None` when the kind
+    /// does not trace colours.
+    fn colour_paths(&self, _index: f64) -> Option<Vec<(String, Vec<crate::geom::Point>)>> {
+        None
+    }
+    /// The sheet's longitudinal spherical aberration, mm: the largest distance
+    /// between the paraxial focus and a graded ray's crossing (lens shapes);
+    /// `None` for flat faces.
+    fn aberration_mm(&self) -> Option<f64> {
+        None
+    }
 }
 
 impl SheetPlan {
@@ -334,5 +357,20 @@ impl SheetPlan {
 /// Plans every sheet of the lesson, ungrouped: fixed values where given,
 /// defaults elsewhere.
 pub fn plan_lesson(lesson: &Lesson, paper: &PaperSpec) -> Vec<SheetPlan> {
-    lesson.sheets.iter().map(|s| s.kind.def().prepare(&lesson.kit, s, paper).plan(None)).collect()
+    lesson
+        .sheets
+        .iter()
+        .map(|s| {
+            let mut plan = s.kind.def().prepare(&lesson.kit, s, paper).plan(None);
+            attach(&mut plan, s);
+            plan
+        })
+        .collect()
+}
+
+/// Adds what the kit's sheet table asks beyond the kind's plan: the colours'
+/// traces (`all_colours`) and the material's source.
+pub fn attach(plan: &mut SheetPlan, spec: &SheetSpec) {
+    plan.source = spec.source;
+    plan.colours = colours::colour_set(plan.view(), &spec.lights);
 }

@@ -46,6 +46,10 @@ impl Kind for CurvedFaceKind {
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(SheetKind::CurvedFace, entry, kit)
     }
+    fn takes_colours(&self) -> bool {
+        true
+    }
+
     fn prepare<'a>(&self, kit: &'a Kit, spec: &'a SheetSpec, paper: &'a PaperSpec) -> Box<dyn Prepared + 'a> {
         Box::new(LensPrepared::new(kit, spec, paper))
     }
@@ -64,6 +68,10 @@ impl Kind for FocalKind {
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(SheetKind::Focal, entry, kit)
     }
+    fn takes_colours(&self) -> bool {
+        true
+    }
+
     fn prepare<'a>(&self, kit: &'a Kit, spec: &'a SheetSpec, paper: &'a PaperSpec) -> Box<dyn Prepared + 'a> {
         Box::new(LensPrepared::new(kit, spec, paper))
     }
@@ -180,6 +188,8 @@ fn check(kind: SheetKind, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitErr
         heights_mm: heights,
         angles_deg: None,
         line: s.at.line(),
+        lights: Vec::new(),
+        source: None,
     })
 }
 
