@@ -917,7 +917,7 @@ fn bad_sheet_kind() {
             col: Some(col),
             field: "sheets[2].kind",
             hint: &[
-                "\"curved-face\", \"focal\", \"block\", \"prism\", \"index\", \"critical-angle\" or \"radius\"",
+                "\"curved-face\", \"focal\", \"block\", \"prism\", \"index\", \"critical-angle\", \"radius\" or \"spectrum\"",
             ],
         },
     );

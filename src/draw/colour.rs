@@ -146,23 +146,48 @@ pub fn colour_paths(d: &mut Drawing, bounds: &Rect, paths: &[ColourPath]) -> Vec
         items.push(Item::Polyline { points: shown.clone(), closed: false, stroke: p.style.stroke() });
         ends.push((p.style, shown));
     }
-    // The far ends first: there the colours have parted most.
+    // The far ends first: there the colours have parted most. Where the end
+    // is taken, the initial goes further back along the last segment; at the
+    // start, further along the first.
     for (style, pts) in &ends {
         let n = pts.len();
-        let u = (pts[n - 1] - pts[n - 2]).normalized().unwrap_or(Vec2::new(1.0, 0.0));
-        if let Some(lbl) = place_near(&mut d.placer, bounds, &style.initial, VALUE_PT, pts[n - 1], u) {
-            items.extend(lbl);
-        }
+        let (a, b) = (pts[n - 2], pts[n - 1]);
+        let u = (b - a).normalized().unwrap_or(Vec2::new(1.0, 0.0));
+        let reach = 0.6 * a.distance(b);
+        let spots: Vec<Point> = (0..40)
+            .map(|k| 3.0 * f64::from(k))
+            .filter(|back| *back < reach)
+            .map(|back| b - u * back)
+            .collect();
+        items.extend(initial_at(d, bounds, &style.initial, &spots, u));
     }
     for (style, pts) in &ends {
-        let u = (pts[1] - pts[0]).normalized().unwrap_or(Vec2::new(1.0, 0.0));
-        // A little along the ray from where it parts, on the side it turns to.
-        let at = pts[0] + u * 3.0_f64.min(pts[0].distance(pts[1]) / 2.0);
-        if let Some(lbl) = place_near(&mut d.placer, bounds, &style.initial, VALUE_PT, at, -u) {
-            items.extend(lbl);
-        }
+        let (a, b) = (pts[0], pts[1]);
+        let u = (b - a).normalized().unwrap_or(Vec2::new(1.0, 0.0));
+        let reach = 0.4 * a.distance(b);
+        let spots: Vec<Point> =
+            (1..40).map(|k| 3.0 * f64::from(k)).filter(|on| *on < reach).map(|on| a + u * on).collect();
+        items.extend(initial_at(d, bounds, &style.initial, &spots, -u));
     }
     items
+}
+
+/// An initial near the first of `spots` where the placer finds room (its
+/// leader-free standoffs only), else near the first spot wherever it can.
+fn initial_at(d: &mut Drawing, bounds: &Rect, initial: &str, spots: &[Point], prefer: Vec2) -> Vec<Item> {
+    for p in spots {
+        let mut trial = d.placer.clone();
+        if let Some(items) = place_near(&mut trial, bounds, initial, VALUE_PT, *p, prefer)
+            && !items.iter().any(|i| matches!(i, Item::Line { .. }))
+        {
+            d.placer = trial;
+            return items;
+        }
+    }
+    spots
+        .first()
+        .and_then(|p| place_near(&mut d.placer, bounds, initial, VALUE_PT, *p, prefer))
+        .unwrap_or_default()
 }
 
 /// Length of a legend's stroke sample, mm.

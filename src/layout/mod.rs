@@ -896,7 +896,8 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
     let tsize = if row_h < 4.4 { fit::FLOOR_PT } else { 7.5 };
     // Every cell on as many lines as its column needs (a key's long outcome
     // words on narrow paper); a row is as tall as its tallest cell.
-    let weight_of = |j: usize| if j == 2 && role == Role::Key { Weight::Bold } else { Weight::Regular };
+    let graded = p.view().graded_column();
+    let weight_of = |j: usize| if j == graded && role == Role::Key { Weight::Bold } else { Weight::Regular };
     let cell_lines: Vec<Vec<Vec<String>>> = rows_text
         .iter()
         .map(|row| {

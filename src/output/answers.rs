@@ -49,9 +49,7 @@ fn to_json_with(kit_title: &str, kit_sha256: Option<&str>, seed: Option<u64>, pl
                 m.insert("colours".into(), colours);
                 m.insert("colour_spread".into(), spread);
             }
-            if let Some(src) = p.source {
-                m.insert("index_source".into(), json!(src));
-            }
+
             if let Some(c) = p.view().class_curve() {
                 m.insert(
                     "class_curve".into(),

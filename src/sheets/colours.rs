@@ -327,7 +327,7 @@ impl SheetPlan {
     /// The key's text: the kind's lines, then the colours' lines.
     pub fn key_lines(&self, w: &Words) -> Vec<String> {
         let mut lines = self.view().key_lines(w);
-        if let Some(c) = &self.colours {
+        if let Some(c) = self.colours.as_ref().filter(|_| !self.view().owns_colour_text()) {
             lines.extend(c.key_lines(&self.view().measured(), w));
         }
         lines

@@ -24,6 +24,7 @@ pub mod protractor_drawing;
 pub mod radius;
 pub mod radius_drawing;
 mod spec;
+pub mod spectrum;
 
 pub use class::{ClassPlan, plan_class};
 pub use spec::{Choice, Enter, Lesson, SheetSpec};
@@ -50,11 +51,13 @@ pub enum SheetKind {
     CriticalAngle,
     /// A lens shape's radii of curvature from a traced chord and sagitta.
     Radius,
+    /// A white ray through a prism, spread into the ray box's colours.
+    Spectrum,
 }
 
 impl SheetKind {
     /// Every kind, in the order the README lists them.
-    pub const ALL: [SheetKind; 7] = [
+    pub const ALL: [SheetKind; 8] = [
         SheetKind::CurvedFace,
         SheetKind::Focal,
         SheetKind::Block,
@@ -62,6 +65,7 @@ impl SheetKind {
         SheetKind::Index,
         SheetKind::CriticalAngle,
         SheetKind::Radius,
+        SheetKind::Spectrum,
     ];
 
     /// The module that implements the kind.
@@ -74,6 +78,7 @@ impl SheetKind {
             SheetKind::Index => &index::INDEX,
             SheetKind::CriticalAngle => &index::CRITICAL,
             SheetKind::Radius => &radius::KIND,
+            SheetKind::Spectrum => &spectrum::KIND,
         }
     }
 
@@ -194,6 +199,8 @@ pub enum Detail {
     Protractor(Box<index::ProtractorView>),
     /// Radius sheets.
     Radius(Box<radius::RadiusView>),
+    /// Spectrum sheets.
+    Spectrum(Box<spectrum::SpectrumPlan>),
 }
 
 impl Detail {
@@ -205,6 +212,7 @@ impl Detail {
             Detail::Prism(p) => p.as_ref(),
             Detail::Protractor(p) => p.as_ref(),
             Detail::Radius(p) => p.as_ref(),
+            Detail::Spectrum(p) => p.as_ref(),
         }
     }
 }
@@ -278,6 +286,10 @@ pub trait SheetView {
     fn table_widths(&self) -> Vec<f64> {
         vec![0.09, 0.17, 0.47, 0.27]
     }
+    /// The table column the key prints in bold: the graded answer.
+    fn graded_column(&self) -> usize {
+        2
+    }
     /// The key's text: exact values, accept ranges and the safe band's reasons.
     fn key_lines(&self, w: &Words) -> Vec<String>;
     /// The key's plot in `rect` (page mm); empty when the kind has none.
@@ -331,6 +343,11 @@ pub trait SheetView {
     /// `None` for flat faces.
     fn aberration_mm(&self) -> Option<f64> {
         None
+    }
+    /// Whether the kind's own key text already tells the colours (spectrum
+    /// sheets), so the shared colour lines are left out.
+    fn owns_colour_text(&self) -> bool {
+        false
     }
 }
 

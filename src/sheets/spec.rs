@@ -127,7 +127,11 @@ impl Lesson {
             // Whether the piece fits comes first: it says more than a field the
             // kind does not take.
             let mut spec = kind.def().check(entry, &kit)?;
-            spec.lights = check_all_colours(entry, &kit, kind)?;
+            let lights = check_all_colours(entry, &kit, kind)?;
+            // A kind may set its colours itself (spectrum sheets always trace them).
+            if !lights.is_empty() {
+                spec.lights = lights;
+            }
             let kp = &kit.pieces[spec.piece];
             spec.source = kit.materials.get(&kp.material).and_then(|m| m.source()).map(|p| p.citation);
             let accepted: Vec<&str> = kind.def().fields().iter().chain(SHARED_FIELDS).copied().collect();
