@@ -312,3 +312,26 @@ fn colour_key_stays_readable_in_black_and_white() {
         }
     }
 }
+
+#[test]
+fn spectrum_sheets_refuse_what_gives_no_spectrum() {
+    let prism = |apex: f64, material: &str, extra: &str| {
+        format!(
+            "{}[[pieces]]\nid = \"tri\"\nmaterial = \"pmma\"\nshape = \"prism\"\napex_deg = {apex}\nside_mm = 50\n[[sheets]]\nkind = \"spectrum\"\npiece = \"tri\"\n{extra}",
+            HEAD.replace("catalog = \"pmma-beadie-2015\"", material)
+        )
+    };
+    let beadie = "catalog = \"pmma-beadie-2015\"";
+    // A right-angle prism reflects the ray totally; one index has no dispersion; one white ray.
+    for (text, field, says) in [
+        (prism(90.0, beadie, ""), "sheets[1].kind", "right-angle prism"),
+        (prism(60.0, "index = 1.49", ""), "sheets[1].kind", "no dispersion"),
+        (prism(60.0, beadie, "angles_deg = [45, 50]\n"), "sheets[1].angles_deg", "one white ray"),
+    ] {
+        let e = Lesson::from_toml(&text, "spectrum.toml").expect_err("refused");
+        let shown = e.to_string();
+        assert_eq!(e.field, field, "{shown}");
+        assert!(shown.contains(says) && !e.hint.is_empty(), "{shown}");
+    }
+    assert!(Lesson::from_toml(&prism(60.0, beadie, "angles_deg = [45]\n"), "spectrum.toml").is_ok());
+}
