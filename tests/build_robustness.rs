@@ -32,10 +32,11 @@ fn face(kind: u8, r: f64, a: f64) -> (String, f64) {
 }
 
 /// One valid piece and sheet of kind `kind` (0 curved-face, 1 focal, 2 block,
-/// 3 prism, 4 index, 5 critical-angle, 6 radius), from the random numbers in `v`.
+/// 3 prism, 4 index, 5 critical-angle, 6 radius, 7 spectrum, 8 curved-face
+/// with all_colours), from the random numbers in `v`.
 fn piece_and_sheet(kind: u8, v: &Draw) -> String {
     let a = v.h / 2.0;
-    match kind % 7 {
+    match kind % 9 {
         0 => {
             // Flat face first, then a convex face: R ≥ a, edge ≥ 1 mm.
             let r = v.r1 * a;
@@ -60,7 +61,7 @@ fn piece_and_sheet(kind: u8, v: &Draw) -> String {
                  thickness_mm = {t:.3}\nheight_mm = {:.3}\n\
                  [[sheets]]\n{}",
                 v.h,
-                if kind % 7 == 6 {
+                if kind % 9 == 6 {
                     "kind = \"radius\"\npiece = \"p\"\n".to_string()
                 } else {
                     format!(
@@ -83,7 +84,7 @@ fn piece_and_sheet(kind: u8, v: &Draw) -> String {
             let r = (a.max(10.0) * 1000.0).round() / 1000.0;
             let (flat, curved) = ("\"flat\"".to_string(), face(1, r, r).0);
             let (front, back) = if v.front % 2 == 0 { (flat, curved) } else { (curved, flat) };
-            let sheet = if kind % 7 == 4 {
+            let sheet = if kind % 9 == 4 {
                 format!(
                     "kind = \"index\"\npiece = \"p\"\nenter = \"{}\"\n",
                     if v.flag { "flat" } else { "curved" }
@@ -94,6 +95,24 @@ fn piece_and_sheet(kind: u8, v: &Draw) -> String {
             format!(
                 "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = {front}\nback = {back}\n\
                  thickness_mm = {r:.3}\nheight_mm = {:.3}\n[[sheets]]\n{sheet}",
+                2.0 * r
+            )
+        }
+        7 => format!(
+            // A triangular prism below 90° (a right-angle one gives no spectrum).
+            "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nshape = \"prism\"\napex_deg = {:.2}\nside_mm = {:.3}\n\
+             [[sheets]]\nkind = \"spectrum\"\npiece = \"p\"\n",
+            30.0 + v.r1 * 8.0,
+            v.h.max(25.0)
+        ),
+        8 => {
+            // A half-disc, flat face first, every colour traced (R rounded
+            // first, so the height is exactly 2R as printed).
+            let r = (v.h / 2.0 * 1000.0).round() / 1000.0;
+            format!(
+                "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = {r:.3} }}\n\
+                 thickness_mm = {r:.3}\nheight_mm = {:.3}\n\
+                 [[sheets]]\nkind = \"curved-face\"\npiece = \"p\"\nall_colours = true\n",
                 2.0 * r
             )
         }
@@ -136,8 +155,18 @@ fn no_non_finite(what: &str, text: &str) -> Result<(), TestCaseError> {
 fn kit_text(v: &Draw, kind: u8, rays: u32, spacing: f64, paper: usize, groups: u32) -> String {
     let n = v.n;
     let class = if groups > 0 { format!("[class]\ngroups = {groups}\nseed = 7\n") } else { String::new() };
+    // Colour sheets need dispersion: a one-term Sellmeier formula with n near
+    // `n` (b = n² − 1, c = 0.01 µm², a pole at 100 nm), and three colours.
+    let (material, colours) = if kind % 9 >= 7 {
+        (
+            format!("sellmeier = {{ b = [{:.4}], c_um2 = [0.01] }}", n * n - 1.0),
+            "colours = [ { name = \"red\", wavelength_nm = 656.3 }, { name = \"green\", wavelength_nm = 532 }, { name = \"violet\", wavelength_nm = 420 } ]\n",
+        )
+    } else {
+        (format!("index = {n:.4}"), "")
+    };
     format!(
-        "[materials.m]\nindex = {n:.4}\n[ray_box]\nrays = {rays}\nspacing_mm = {spacing:.2}\nray_width_mm = 1.5\n\
+        "[materials.m]\n{material}\n[ray_box]\nrays = {rays}\nspacing_mm = {spacing:.2}\nray_width_mm = 1.5\n{colours}\
          [paper]\nsize = \"{}\"\n{}{class}",
         ["A4", "A3", "Letter", "Legal", "Tabloid"][paper],
         piece_and_sheet(kind, v),
@@ -181,7 +210,7 @@ proptest! {
     /// same), with no temporary or staging file left inside it.
     #[test]
     fn random_kits_through_the_cli_write_only_inside_the_output_folder(
-        kind in 0u8..7,
+        kind in 0u8..9,
         front in 0u8..3, back in 0u8..3,
         r1 in 1.0f64..6.0, r2 in 1.0f64..6.0,
         t in 2.0f64..60.0, h in 10.0f64..120.0, n in 1.3f64..1.9,
@@ -243,7 +272,7 @@ proptest! {
     #![proptest_config(ProptestConfig::with_cases(32))]
     #[test]
     fn random_valid_kits_of_every_kind_build_without_panicking(
-        kind in 0u8..7,
+        kind in 0u8..9,
         front in 0u8..3, back in 0u8..3,
         r1 in 1.0f64..6.0, r2 in 1.0f64..6.0,
         t in 2.0f64..60.0, h in 10.0f64..120.0, n in 1.3f64..1.9,

@@ -917,7 +917,7 @@ fn bad_sheet_kind() {
             col: Some(col),
             field: "sheets[2].kind",
             hint: &[
-                "\"curved-face\", \"focal\", \"block\", \"prism\", \"index\", \"critical-angle\" or \"radius\"",
+                "\"curved-face\", \"focal\", \"block\", \"prism\", \"index\", \"critical-angle\", \"radius\" or \"spectrum\"",
             ],
         },
     );
@@ -1271,6 +1271,21 @@ const RGB: &str =
     "colours = [ { name = \"red\", wavelength_nm = 656.3 }, { name = \"blue\", wavelength_nm = 486.1 } ]";
 
 #[test]
+fn two_colours_with_one_initial_are_refused() {
+    // Keys print each colour's initial at its rays' ends: red and rose would both be R.
+    let text = with_ray_box(
+        BASE,
+        "colours = [ { name = \"red\", wavelength_nm = 656.3 }, { name = \"rose\", wavelength_nm = 620.0 } ]",
+    );
+    let (line, col) = at(&text, "\"rose\"");
+    let shown = check(
+        &error(&text),
+        Expect { line, col: Some(col), field: "ray_box.colours[2].name", hint: &["rename one"] },
+    );
+    assert!(shown.contains("same letter"), "{shown}");
+}
+
+#[test]
 fn all_colours_on_a_material_without_dispersion_is_refused() {
     let text = all_colours_kit("index = 1.50", RGB);
     let (line, col) = at(&text, "true");
@@ -1282,20 +1297,33 @@ fn all_colours_on_a_material_without_dispersion_is_refused() {
 }
 
 #[test]
-fn all_colours_needs_two_colours_and_is_not_made_yet() {
+fn all_colours_needs_two_colours_and_a_kind_that_traces_them() {
     let text = all_colours_kit("catalog = \"pmma-beadie-2015\"", "rays = 3");
     let (line, col) = at(&text, "true");
     check(
         &error(&text),
         Expect { line, col: Some(col), field: "sheets[1].all_colours", hint: &["colours = ["] },
     );
-    // With a dispersing material and colours: refused as not made yet, not ignored.
+    // With a dispersing material and colours a curved-face sheet takes it:
+    // each colour with the piece's index at its wavelength.
     let text = all_colours_kit("catalog = \"pmma-beadie-2015\"", RGB);
-    let shown = check(
-        &error(&text),
-        Expect { line, col: Some(col), field: "sheets[1].all_colours", hint: &["remove all_colours"] },
+    let lesson = Lesson::from_toml(&text, FILE).unwrap_or_else(|e| panic!("{e}"));
+    let lights = &lesson.sheets[0].lights;
+    assert_eq!(lights.len(), 2);
+    // DESIGN.md (Dispersion): Beadie et al. 2015, n = 1.49007 at 656.3 nm, 1.49837 at 486.1 nm.
+    assert!(
+        (lights[0].index - 1.49007).abs() < 1e-5 && (lights[1].index - 1.49837).abs() < 1e-5,
+        "{lights:?}"
     );
-    assert!(shown.contains("not made yet"), "{shown}");
+    // A kind that does not trace colours (a radius sheet) refuses it, located.
+    let radius = edit(&text, "heights_mm = [9, -9]\nall_colours = true\n", "heights_mm = [9, -9]\n");
+    let radius = format!("{radius}\n[[sheets]]\nkind = \"radius\"\npiece = \"hd33\"\nall_colours = true\n");
+    if let Err(e) = Lesson::from_toml(&radius, FILE) {
+        let shown = e.to_string();
+        assert!(shown.contains("do not trace colours") && e.field.ends_with("all_colours"), "{shown}");
+    } else {
+        panic!("a radius sheet with all_colours was accepted");
+    }
     // false is accepted on any kind, and a wrong type is located.
     let off = edit(&text, "all_colours = true", "all_colours = false");
     assert!(Lesson::from_toml(&off, FILE).is_ok());

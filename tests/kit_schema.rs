@@ -242,7 +242,7 @@ const REFUSED: &[(&str, &str, &str)] = &[
     (
         "eight colours",
         "colours = [",
-        "colours = [ { name = \"c1\", wavelength_nm = 400 }, { name = \"c2\", wavelength_nm = 420 }, { name = \"c3\", wavelength_nm = 440 }, { name = \"c4\", wavelength_nm = 460 }, { name = \"c5\", wavelength_nm = 480 }, { name = \"c6\", wavelength_nm = 500 },",
+        "colours = [ { name = \"amber\", wavelength_nm = 400 }, { name = \"blue\", wavelength_nm = 420 }, { name = \"cyan\", wavelength_nm = 440 }, { name = \"indigo\", wavelength_nm = 460 }, { name = \"orange\", wavelength_nm = 480 }, { name = \"violet\", wavelength_nm = 500 },",
     ),
     ("colour in the ultraviolet", "wavelength_nm = 530", "wavelength_nm = 300"),
     (
@@ -338,7 +338,7 @@ const AT_THE_EDGE: &[(&str, &str, &str)] = &[
     (
         "seven colours",
         "colours = [",
-        "colours = [ { name = \"c1\", wavelength_nm = 400 }, { name = \"c2\", wavelength_nm = 420 }, { name = \"c3\", wavelength_nm = 440 }, { name = \"c4\", wavelength_nm = 460 }, { name = \"c5\", wavelength_nm = 480 },",
+        "colours = [ { name = \"amber\", wavelength_nm = 400 }, { name = \"blue\", wavelength_nm = 420 }, { name = \"cyan\", wavelength_nm = 440 }, { name = \"indigo\", wavelength_nm = 460 }, { name = \"orange\", wavelength_nm = 480 },",
     ),
     (
         "a 120-character title",

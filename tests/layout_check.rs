@@ -550,8 +550,11 @@ fn templates_that_run_off_the_page_when_accepted_lay_out_cleanly() {
     for name in raysheet::layout::TEMPLATE_FILES.iter().filter(|n| **n != "words.toml") {
         let text = match *name {
             "common.toml" => common.clone(),
-            // The index sheet's table has five columns (ray, i, r, sin i, sin r).
-            "index.toml" => sheet.replace("\"Check\"]", "\"Check\", \"sin r, the sine of the angle\"]"),
+            // The index sheet's table has five columns (ray, i, r, sin i, sin r),
+            // the spectrum sheet's too (ray, colour, i, e, δ).
+            "index.toml" | "spectrum.toml" => {
+                sheet.replace("\"Check\"]", "\"Check\", \"sin r, the sine of the angle\"]")
+            }
             _ => sheet.clone(),
         };
         overrides.insert(name.to_string(), (format!("mine/{name}"), text));
@@ -638,8 +641,17 @@ fn the_check_catches_each_kind_of_defect() {
 
 /// A random kit of one sheet of `kind`; `None` when the numbers make no valid piece.
 fn random_kit(kind: u8, a: f64, b: f64, c: f64, n: f64, rays: u32, paper: &str) -> String {
+    // Colour kinds: a one-term Sellmeier formula near n (c = 0.01 µm²) and three colours.
+    let (material, colours) = if kind >= 8 {
+        (
+            format!("sellmeier = {{ b = [{:.4}], c_um2 = [0.01] }}", n * n - 1.0),
+            "colours = [ { name = \"red\", wavelength_nm = 656.3 }, { name = \"green\", wavelength_nm = 532 }, { name = \"blue\", wavelength_nm = 486.1 } ]\n",
+        )
+    } else {
+        (format!("index = {n:.3}"), "")
+    };
     let head = format!(
-        "title = \"random kit\"\n[materials.m]\nindex = {n:.3}\n[ray_box]\nrays = {rays}\nspacing_mm = {:.1}\nray_width_mm = {:.1}\n[paper]\nsize = \"{paper}\"\n",
+        "title = \"random kit\"\n[materials.m]\n{material}\n[ray_box]\nrays = {rays}\nspacing_mm = {:.1}\nray_width_mm = {:.1}\n{colours}[paper]\nsize = \"{paper}\"\n",
         4.0 + 8.0 * c,
         1.0 + 1.5 * b
     );
@@ -711,6 +723,19 @@ fn random_kit(kind: u8, a: f64, b: f64, c: f64, n: f64, rays: u32, paper: &str) 
                 2.0 * r
             )
         }
+        // Spectrum (a triangular prism), or a half-disc with every colour traced.
+        8 => format!(
+            "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nshape = \"prism\"\napex_deg = {:.1}\nside_mm = {:.1}\n[[sheets]]\nkind = \"spectrum\"\npiece = \"p\"\n",
+            40.0 + 40.0 * a,
+            30.0 + 30.0 * b
+        ),
+        9 => {
+            let r = 20.0 + 40.0 * a;
+            format!(
+                "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = {r:.1} }}\nthickness_mm = {r:.1}\nheight_mm = {:.1}\n[[sheets]]\nkind = \"curved-face\"\npiece = \"p\"\nall_colours = true\n",
+                2.0 * r
+            )
+        }
         _ => {
             let apex = if c > 0.7 { 90.0 } else { 40.0 + 40.0 * a };
             let enter = if c > 0.85 { "base" } else { "side" };
@@ -727,7 +752,7 @@ proptest! {
     #![proptest_config(ProptestConfig { cases: 24, max_shrink_iters: 16, ..ProptestConfig::default() })]
     #[test]
     fn random_kits_of_every_kind_lay_out_cleanly(
-        kind in 0u8..8, a in 0.0f64..1.0, b in 0.0f64..1.0, c in 0.0f64..1.0,
+        kind in 0u8..10, a in 0.0f64..1.0, b in 0.0f64..1.0, c in 0.0f64..1.0,
         n in 1.45f64..1.6, rays in 1u32..6, letter in proptest::bool::ANY,
     ) {
         let text = random_kit(kind, a, b, c, n, rays, if letter { "Letter" } else { "A4" });

@@ -192,6 +192,10 @@ fn allowed() -> BTreeSet<String> {
         own.push(p.id.clone());
         own.extend(p.label.clone());
     }
+    // The ray box's colours as the kit names them, and the published sources
+    // of its materials (an author's name and a journal stay as written).
+    own.extend(kit.ray_box.colours.iter().map(|c| c.name.clone()));
+    own.extend(kit.materials.values().filter_map(|m| m.source()).map(|p| p.citation.to_string()));
     own.iter().flat_map(|s| ascii_words(s)).collect()
 }
 

@@ -7,6 +7,7 @@
 //! knows a sheet kind, traces a ray or lays out a page.
 
 pub mod axes;
+pub mod colour;
 mod fan;
 pub mod labels;
 mod outline;

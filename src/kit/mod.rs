@@ -68,6 +68,20 @@ pub struct Colour {
     pub wavelength_nm: f64,
 }
 
+impl Colour {
+    /// The letter printed at both ends of this colour's rays on a key, so a
+    /// black-and-white copy still tells the colours apart: the name's first
+    /// character in capitals. Two colours of a ray box never share it (the
+    /// kit refuses that).
+    pub fn initial(&self) -> String {
+        initial_of(&self.name)
+    }
+}
+
+fn initial_of(name: &str) -> String {
+    name.chars().next().map(|c| c.to_uppercase().collect()).unwrap_or_default()
+}
+
 /// Most colours a ray box may list: the seven of a rainbow (our bound).
 pub const MAX_COLOURS: usize = 7;
 
@@ -561,6 +575,18 @@ impl Validator<'_> {
                     f("name"),
                     format!("colour \"{name}\" is given twice (as \"{}\")", prev.name),
                     "give every colour its own name",
+                );
+            }
+            if let Some(prev) = out.iter().find(|o| o.initial() == initial_of(&name)) {
+                return self.err(
+                    c.name.span(),
+                    f("name"),
+                    format!(
+                        "colour \"{name}\" starts with the same letter as \"{}\": keys print each colour's initial ({}) at its rays' ends, so a black-and-white copy could not tell them apart",
+                        prev.name,
+                        prev.initial()
+                    ),
+                    "rename one so that every colour starts with its own letter, such as \"violet\" for \"purple\" beside \"pink\"",
                 );
             }
             let wavelength_nm = self.wavelength(&c.wavelength_nm, f("wavelength_nm"))?;

@@ -233,7 +233,7 @@ fn tiled_label_boxes(
     let bounds = tiled_bounds(s, win, tiling);
     let view = p.view();
     let mut d: Drawing = view.student(bounds, w);
-    let key = view.key(&mut d, bounds, w);
+    let key = p.key(&mut d, bounds, w);
     d.items.iter().chain(&key).filter_map(label_box).collect()
 }
 
@@ -409,7 +409,7 @@ fn drawing_pages(
         let mut d: Drawing = view.student(bounds, w);
         let mut items = std::mem::take(&mut d.items);
         if role == Role::Key {
-            items.extend(view.key(&mut d, bounds, w));
+            items.extend(p.key(&mut d, bounds, w));
         }
         labels_inside(&items, &bounds, w).map_err(at)?;
         let offset =
@@ -436,7 +436,7 @@ fn drawing_pages(
     let bounds = tiled_bounds(&s, &win, tiling);
     let mut d: Drawing = view.student(bounds, w);
     let mut items = std::mem::take(&mut d.items);
-    let key_items = view.key(&mut d, bounds, w);
+    let key_items = p.key(&mut d, bounds, w);
     labels_inside(&items, &bounds, w).map_err(at)?;
     labels_inside(&key_items, &bounds, w).map_err(at)?;
     // The tiles are cut alike for the sheet and its key (the key's labels
@@ -866,7 +866,7 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
             }
             Role::Key => {
                 let table_mm = head_min + (rows - 1) as f64 * fit::MIN_ROW_MM;
-                key_text(&p.view().key_lines(&t.words), r, table_mm, &t.words)?
+                key_text(&p.key_lines(&t.words), r, table_mm, &t.words)?
             }
         };
     let lead = leading(size);
@@ -896,7 +896,8 @@ fn text_block(p: &SheetPlan, r: &Rect, t: &Templates, role: Role) -> Result<Vec<
     let tsize = if row_h < 4.4 { fit::FLOOR_PT } else { 7.5 };
     // Every cell on as many lines as its column needs (a key's long outcome
     // words on narrow paper); a row is as tall as its tallest cell.
-    let weight_of = |j: usize| if j == 2 && role == Role::Key { Weight::Bold } else { Weight::Regular };
+    let graded = p.view().graded_column();
+    let weight_of = |j: usize| if j == graded && role == Role::Key { Weight::Bold } else { Weight::Regular };
     let cell_lines: Vec<Vec<Vec<String>>> = rows_text
         .iter()
         .map(|row| {

@@ -76,6 +76,7 @@ const SHIPPED: &[(&str, &str)] = &[
     ("block.toml", include_str!("../../templates/block.toml")),
     ("prism.toml", include_str!("../../templates/prism.toml")),
     ("prism-turn.toml", include_str!("../../templates/prism-turn.toml")),
+    ("spectrum.toml", include_str!("../../templates/spectrum.toml")),
     ("index.toml", include_str!("../../templates/index.toml")),
     ("critical-angle.toml", include_str!("../../templates/critical-angle.toml")),
     ("radius.toml", include_str!("../../templates/radius.toml")),
@@ -91,6 +92,7 @@ pub const FILES: &[&str] = &[
     "block.toml",
     "prism.toml",
     "prism-turn.toml",
+    "spectrum.toml",
     "index.toml",
     "critical-angle.toml",
     "radius.toml",
@@ -510,8 +512,9 @@ mod tests {
         let t = super::Templates::shipped().unwrap();
         for name in super::FILES.iter().filter(|n| !["common.toml", "words.toml"].contains(*n)) {
             assert!(!t.sheet(name).instructions.is_empty(), "{name}");
-            // Four columns, five on the index sheet (ray, i, r, sin i, sin r).
-            let want = if *name == "index.toml" { 5 } else { 4 };
+            // Four columns, five on the index sheet (ray, i, r, sin i, sin r)
+            // and the spectrum sheet (ray, colour, i, e, δ).
+            let want = if ["index.toml", "spectrum.toml"].contains(name) { 5 } else { 4 };
             assert_eq!(t.sheet(name).columns.len(), want, "{name}");
         }
     }

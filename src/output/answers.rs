@@ -44,6 +44,12 @@ fn to_json_with(kit_title: &str, kit_sha256: Option<&str>, seed: Option<u64>, pl
                 }
             }
             m.insert("measured".into(), measured_json(p));
+            if let Some(c) = &p.colours {
+                let (colours, spread) = c.answers(&p.view().measured());
+                m.insert("colours".into(), colours);
+                m.insert("colour_spread".into(), spread);
+            }
+
             if let Some(c) = p.view().class_curve() {
                 m.insert(
                     "class_curve".into(),

@@ -18,7 +18,7 @@ use std::fmt;
 
 use crate::font;
 use crate::geom::{Point, Vec2};
-use crate::scene::{Dash, Item, OutlinePart, Page, Rect, Stroke, Weight};
+use crate::scene::{Dash, Item, OutlinePart, Page, Paint, Rect, Stroke, Weight};
 
 pub mod pdf;
 pub mod svg;
@@ -117,9 +117,14 @@ fn walk_items(items: &[Item], num: &mut impl FnMut(&'static str, f64)) {
     };
     let stroke = |s: &Stroke, num: &mut dyn FnMut(&'static str, f64)| {
         num("line width", s.width_mm);
-        num("grey level", s.gray);
+        if let Paint::Grey(g) = s.paint {
+            num("grey level", g);
+        }
         match s.dash {
             Dash::Solid => {}
+            Dash::Beads { dash_mm, bead_mm, gap_mm, beads: _ } => {
+                [dash_mm, bead_mm, gap_mm].into_iter().for_each(|v| num("dash length", v))
+            }
             Dash::Dashed { on_mm, off_mm } => [on_mm, off_mm].into_iter().for_each(|v| num("dash length", v)),
             Dash::DashDot { long_mm, short_mm, gap_mm } => {
                 [long_mm, short_mm, gap_mm].into_iter().for_each(|v| num("dash length", v))

@@ -15,7 +15,7 @@ use svg::node::element::{Element, tag};
 use crate::font;
 use crate::geom::{Point, Vec2};
 use crate::scene::{
-    Anchor, Dash, Gray, Item, MM_PER_PT, MarkerShape, OutlinePart, Page, Rect, Stroke, Weight,
+    Anchor, Dash, Gray, Item, MM_PER_PT, MarkerShape, OutlinePart, Page, Paint, Rect, Stroke, Weight,
 };
 
 use super::{RenderError, check_text};
@@ -233,7 +233,7 @@ fn marker(f: Flip, at: Point, shape: MarkerShape, size_mm: f64, stroke: &Stroke)
     match shape {
         MarkerShape::Cross => two_strokes(Vec2::new(h, 0.0), Vec2::new(0.0, h)),
         MarkerShape::Saltire => two_strokes(Vec2::new(h, h), Vec2::new(h, -h)),
-        MarkerShape::Dot => circle(f, at, h, Some(stroke.gray), None),
+        MarkerShape::Dot => circle_painted(f, at, h, stroke.paint),
         MarkerShape::Ring => circle(f, at, h, None, Some(stroke)),
     }
 }
@@ -310,6 +310,13 @@ fn circle(f: Flip, center: Point, radius_mm: f64, fill: Option<Gray>, stroke: Op
     el
 }
 
+/// A filled disc in a stroke's paint (a dot marker), no border.
+fn circle_painted(f: Flip, center: Point, radius_mm: f64, paint: Paint) -> Element {
+    let mut el = circle(f, center, radius_mm, None, None);
+    el.assign("fill", hex_paint(paint));
+    el
+}
+
 fn path(d: &str, fill: Option<Gray>, stroke: Option<&Stroke>) -> Element {
     let mut el = Element::new(tag::Path);
     el.assign("d", d);
@@ -323,7 +330,7 @@ fn paint(el: &mut Element, fill: Option<Gray>, stroke: Option<&Stroke>) {
     match stroke {
         None => el.assign("stroke", "none"),
         Some(s) => {
-            el.assign("stroke", hex_gray(s.gray));
+            el.assign("stroke", hex_paint(s.paint));
             el.assign("stroke-width", num(s.width_mm));
             if let Some(dash) = dash_array(&s.dash) {
                 el.assign("stroke-dasharray", dash);
@@ -336,8 +343,7 @@ fn paint(el: &mut Element, fill: Option<Gray>, stroke: Option<&Stroke>) {
 fn dash_array(dash: &Dash) -> Option<String> {
     let values = match *dash {
         Dash::Solid => return None,
-        Dash::Dashed { on_mm, off_mm } => vec![on_mm, off_mm],
-        Dash::DashDot { long_mm, short_mm, gap_mm } => vec![long_mm, gap_mm, short_mm, gap_mm],
+        Dash::Dashed { .. } | Dash::DashDot { .. } | Dash::Beads { .. } => dash.pattern_mm(),
     };
     Some(values.into_iter().map(num).collect::<Vec<_>>().join(" "))
 }
@@ -398,6 +404,14 @@ fn arc_pieces(sweep_rad: f64) -> u32 {
 }
 
 /// A grey level as `#rrggbb` (0 black, 1 white; clamped).
+/// A paint as `#rrggbb`.
+fn hex_paint(paint: Paint) -> String {
+    match paint {
+        Paint::Grey(g) => hex_gray(g),
+        Paint::Rgb([r, g, b]) => format!("#{r:02x}{g:02x}{b:02x}"),
+    }
+}
+
 fn hex_gray(gray: Gray) -> String {
     #[expect(clippy::cast_possible_truncation, clippy::cast_sign_loss, reason = "rounded value in 0..=255")]
     let v = (gray.clamp(0.0, 1.0) * 255.0).round() as u8;

@@ -2,7 +2,7 @@
 
 use std::fmt::Write;
 
-use super::{Dash, Item, OutlinePart, Scene, Stroke};
+use super::{Dash, Item, OutlinePart, Paint, Scene, Stroke};
 
 fn stroke(s: &Stroke) -> String {
     let dash = match s.dash {
@@ -11,8 +11,15 @@ fn stroke(s: &Stroke) -> String {
         Dash::DashDot { long_mm, short_mm, gap_mm } => {
             format!("dashdot {long_mm:.2}/{short_mm:.2}/{gap_mm:.2}")
         }
+        Dash::Beads { dash_mm, bead_mm, gap_mm, beads } => {
+            format!("beads {dash_mm:.2}/{bead_mm:.2}/{gap_mm:.2}x{beads}")
+        }
     };
-    format!("w{:.2} g{:.2} {dash}", s.width_mm, s.gray)
+    let paint = match s.paint {
+        Paint::Grey(g) => format!("g{g:.2}"),
+        Paint::Rgb([r, g, b]) => format!("rgb#{r:02x}{g:02x}{b:02x}"),
+    };
+    format!("w{:.2} {paint} {dash}", s.width_mm)
 }
 
 fn item(out: &mut String, it: &Item, indent: usize) {

@@ -40,6 +40,17 @@ pub struct Page {
 /// Grey level: 0.0 is black, 1.0 is white.
 pub type Gray = f64;
 
+/// What a line is painted with: a grey level, or a colour in sRGB (IEC
+/// 61966-2-1) for coloured rays. A coloured stroke always comes with a dash
+/// pattern of its own, so a black-and-white copy keeps the colours apart.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Paint {
+    /// A grey level: 0.0 is black, 1.0 is white.
+    Grey(Gray),
+    /// Red, green and blue in sRGB, each 0–255.
+    Rgb([u8; 3]),
+}
+
 /// How a line is dashed.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub enum Dash {
@@ -61,6 +72,37 @@ pub enum Dash {
         /// Each gap, mm.
         gap_mm: f64,
     },
+    /// A dash followed by `beads` short dashes: dash, gap, then bead and gap
+    /// `beads` times (coloured rays: one bead count per colour).
+    Beads {
+        /// The long dash, mm.
+        dash_mm: f64,
+        /// Each short dash, mm.
+        bead_mm: f64,
+        /// Each gap, mm.
+        gap_mm: f64,
+        /// How many short dashes follow the long one.
+        beads: u8,
+    },
+}
+
+impl Dash {
+    /// The on/off lengths in order, mm, as both renderers write them (empty:
+    /// solid).
+    pub fn pattern_mm(&self) -> Vec<f64> {
+        match *self {
+            Dash::Solid => Vec::new(),
+            Dash::Dashed { on_mm, off_mm } => vec![on_mm, off_mm],
+            Dash::DashDot { long_mm, short_mm, gap_mm } => vec![long_mm, gap_mm, short_mm, gap_mm],
+            Dash::Beads { dash_mm, bead_mm, gap_mm, beads } => {
+                let mut v = vec![dash_mm, gap_mm];
+                for _ in 0..beads {
+                    v.extend([bead_mm, gap_mm]);
+                }
+                v
+            }
+        }
+    }
 }
 
 /// How a line is painted.
@@ -68,8 +110,8 @@ pub enum Dash {
 pub struct Stroke {
     /// Line width, mm.
     pub width_mm: f64,
-    /// Grey level of the line.
-    pub gray: Gray,
+    /// Grey or colour of the line.
+    pub paint: Paint,
     /// Dash pattern.
     pub dash: Dash,
 }
@@ -77,12 +119,17 @@ pub struct Stroke {
 impl Stroke {
     /// A solid black line `width_mm` wide.
     pub const fn solid(width_mm: f64) -> Stroke {
-        Stroke { width_mm, gray: 0.0, dash: Dash::Solid }
+        Stroke { width_mm, paint: Paint::Grey(0.0), dash: Dash::Solid }
     }
 
     /// The same stroke with another grey.
     pub const fn gray(self, gray: Gray) -> Stroke {
-        Stroke { gray, ..self }
+        Stroke { paint: Paint::Grey(gray), ..self }
+    }
+
+    /// The same stroke in another paint.
+    pub const fn paint(self, paint: Paint) -> Stroke {
+        Stroke { paint, ..self }
     }
 
     /// The same stroke with another dash pattern.

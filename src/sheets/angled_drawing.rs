@@ -268,6 +268,24 @@ fn by_size(values: impl Iterator<Item = (usize, Option<f64>)>) -> Vec<usize> {
     v.into_iter().map(|(k, _)| k).collect()
 }
 
+/// Each guide ray's path as the key draws it (letter, points): from the entry
+/// point through every event to the emergent ray's drawn end.
+pub fn ray_paths<F: Copy + PartialEq>(plan: &AngledPlan<F>) -> Vec<(String, Vec<Point>)> {
+    key_rays(plan)
+        .into_iter()
+        .map(|k| {
+            let mut pts = k.inside;
+            if let Some((a, b)) = k.emergent {
+                if pts.last().is_none_or(|p| p.distance(a) > 1e-9) {
+                    pts.push(a);
+                }
+                pts.push(b);
+            }
+            (k.letter, pts)
+        })
+        .collect()
+}
+
 fn key_rays<F: Copy + PartialEq>(plan: &AngledPlan<F>) -> Vec<KeyRay> {
     let s = &plan.setup;
     let mut out: Vec<KeyRay> = plan.rays.iter().map(|r| one_key_ray(plan, r)).collect();

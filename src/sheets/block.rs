@@ -94,6 +94,10 @@ impl Kind for BlockKind {
         let angles = av::check_angles(s, 0.0, 89.9)?;
         Ok(SheetSpec::angled(s, SheetKind::Block, Enter::Side, angles))
     }
+    fn takes_colours(&self) -> bool {
+        true
+    }
+
     fn prepare<'a>(
         &self,
         kit: &'a Kit,
@@ -184,6 +188,8 @@ impl Prepared for BlockPrepared<'_> {
             variant: None,
             warnings,
             detail: Detail::Block(Box::new(view)),
+            colours: None,
+            source: None,
         }
     }
 }
@@ -245,6 +251,10 @@ impl SheetView for BlockPlan {
     }
     fn measured_at_index(&self, index: f64) -> Vec<crate::sheets::Measured> {
         BlockPlan { plan: self.plan.with_index(index), ..self.clone() }.measured()
+    }
+
+    fn colour_paths(&self, index: f64) -> Option<Vec<(String, Vec<crate::geom::Point>)>> {
+        Some(crate::sheets::angled_drawing::ray_paths(&self.plan.with_index(index)))
     }
     fn measured(&self) -> Vec<crate::sheets::Measured> {
         let p = &self.plan;

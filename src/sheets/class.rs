@@ -40,6 +40,7 @@ pub fn plan_class(lesson: &Lesson, paper: &PaperSpec, groups: Vec<Group>, seed: 
                 None => fallback.clone().expect("made when there are no options"),
             };
             plan.group = Some(group.name.clone());
+            super::attach(&mut plan, spec);
             plans[g].push(plan);
         }
     }

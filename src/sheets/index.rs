@@ -382,6 +382,8 @@ impl Prepared for ProtractorPrepared<'_> {
             warnings,
             wavelength_nm: self.kit.ray_box.wavelength_nm,
             detail: Detail::Protractor(Box::new(view)),
+            colours: None,
+            source: None,
         }
     }
 }

@@ -14,6 +14,7 @@ pub mod angled_drawing;
 pub mod angled_view;
 pub mod block;
 mod class;
+pub mod colours;
 pub mod deviation_plot;
 pub mod field;
 pub mod index;
@@ -24,6 +25,7 @@ pub mod protractor_drawing;
 pub mod radius;
 pub mod radius_drawing;
 mod spec;
+pub mod spectrum;
 
 pub use class::{ClassPlan, plan_class};
 pub use field::SheetField;
@@ -51,11 +53,13 @@ pub enum SheetKind {
     CriticalAngle,
     /// A lens shape's radii of curvature from a traced chord and sagitta.
     Radius,
+    /// A white ray through a prism, spread into the ray box's colours.
+    Spectrum,
 }
 
 impl SheetKind {
     /// Every kind, in the order the README lists them.
-    pub const ALL: [SheetKind; 7] = [
+    pub const ALL: [SheetKind; 8] = [
         SheetKind::CurvedFace,
         SheetKind::Focal,
         SheetKind::Block,
@@ -63,6 +67,7 @@ impl SheetKind {
         SheetKind::Index,
         SheetKind::CriticalAngle,
         SheetKind::Radius,
+        SheetKind::Spectrum,
     ];
 
     /// The module that implements the kind.
@@ -75,6 +80,7 @@ impl SheetKind {
             SheetKind::Index => &index::INDEX,
             SheetKind::CriticalAngle => &index::CRITICAL,
             SheetKind::Radius => &radius::KIND,
+            SheetKind::Spectrum => &spectrum::KIND,
         }
     }
 
@@ -113,7 +119,7 @@ pub fn kit_schema() -> serde_json::Value {
                 "piece".into(),
                 json!({ "description": "The id of the piece this sheet uses (a [[pieces]] table of this kit).", "type": "string" }),
             );
-            for f in def.fields().iter().chain(SHARED_FIELDS) {
+            for f in def.fields().iter().chain(&spec::shared_fields(*k)) {
                 props.insert(f.name.into(), f.schema());
             }
             json!({
@@ -150,6 +156,11 @@ pub trait Kind: Sync {
     /// Checks a sheet table against the kit: the piece fits, every field is
     /// accepted and usable. Errors point at the file, line and field.
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError>;
+    /// Whether `all_colours = true` is taken: the plans answer
+    /// [`SheetView::colour_paths`].
+    fn takes_colours(&self) -> bool {
+        false
+    }
     /// Works out what every plan of this sheet shares (safe bands, once).
     fn prepare<'a>(&self, kit: &'a Kit, spec: &'a SheetSpec, paper: &'a PaperSpec) -> Box<dyn Prepared + 'a>;
 }
@@ -215,6 +226,10 @@ pub struct SheetPlan {
     pub warnings: Vec<String>,
     /// What is particular to the kind.
     pub detail: Detail,
+    /// With `all_colours = true`: every colour's traces (see [`colours`]).
+    pub colours: Option<colours::ColourSet>,
+    /// The paper the material's formula comes from, for a built-in material.
+    pub source: Option<&'static str>,
 }
 
 /// The kind-particular part of a plan.
@@ -230,6 +245,8 @@ pub enum Detail {
     Protractor(Box<index::ProtractorView>),
     /// Radius sheets.
     Radius(Box<radius::RadiusView>),
+    /// Spectrum sheets.
+    Spectrum(Box<spectrum::SpectrumPlan>),
 }
 
 impl Detail {
@@ -241,6 +258,7 @@ impl Detail {
             Detail::Prism(p) => p.as_ref(),
             Detail::Protractor(p) => p.as_ref(),
             Detail::Radius(p) => p.as_ref(),
+            Detail::Spectrum(p) => p.as_ref(),
         }
     }
 }
@@ -314,6 +332,10 @@ pub trait SheetView {
     fn table_widths(&self) -> Vec<f64> {
         vec![0.09, 0.17, 0.47, 0.27]
     }
+    /// The table column the key prints in bold: the graded answer.
+    fn graded_column(&self) -> usize {
+        2
+    }
     /// The key's text: exact values, accept ranges and the safe band's reasons.
     fn key_lines(&self, w: &Words) -> Vec<String>;
     /// The key's plot in `rect` (page mm); empty when the kind has none.
@@ -356,6 +378,24 @@ pub trait SheetView {
     /// The exact curve the class's measurements of this sheet are plotted
     /// against when marking, if the sheet has one.
     fn class_curve(&self) -> Option<ClassCurve>;
+    /// Every guide ray traced again with the piece's index replaced by
+    /// `index` (a colour's), as (letter, path in the sheet frame as the key
+    /// draws it: from the ray box to its drawn end); `None` when the kind
+    /// does not trace colours.
+    fn colour_paths(&self, _index: f64) -> Option<Vec<(String, Vec<crate::geom::Point>)>> {
+        None
+    }
+    /// The sheet's longitudinal spherical aberration, mm: the largest distance
+    /// between the paraxial focus and a graded ray's crossing (lens shapes);
+    /// `None` for flat faces.
+    fn aberration_mm(&self) -> Option<f64> {
+        None
+    }
+    /// Whether the kind's own key text already tells the colours (spectrum
+    /// sheets), so the shared colour lines are left out.
+    fn owns_colour_text(&self) -> bool {
+        false
+    }
 }
 
 impl SheetPlan {
@@ -381,5 +421,20 @@ impl SheetPlan {
 /// Plans every sheet of the lesson, ungrouped: fixed values where given,
 /// defaults elsewhere.
 pub fn plan_lesson(lesson: &Lesson, paper: &PaperSpec) -> Vec<SheetPlan> {
-    lesson.sheets.iter().map(|s| s.kind.def().prepare(&lesson.kit, s, paper).plan(None)).collect()
+    lesson
+        .sheets
+        .iter()
+        .map(|s| {
+            let mut plan = s.kind.def().prepare(&lesson.kit, s, paper).plan(None);
+            attach(&mut plan, s);
+            plan
+        })
+        .collect()
+}
+
+/// Adds what the kit's sheet table asks beyond the kind's plan: the colours'
+/// traces (`all_colours`) and the material's source.
+pub fn attach(plan: &mut SheetPlan, spec: &SheetSpec) {
+    plan.source = spec.source;
+    plan.colours = colours::colour_set(plan.view(), &spec.lights);
 }

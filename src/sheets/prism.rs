@@ -234,6 +234,10 @@ impl Kind for PrismKind {
         let angles = av::check_angles(s, -89.9, 89.9)?;
         Ok(SheetSpec::angled(s, SheetKind::Prism, enter, angles))
     }
+    fn takes_colours(&self) -> bool {
+        true
+    }
+
     fn prepare<'a>(
         &self,
         kit: &'a Kit,
@@ -365,6 +369,8 @@ impl Prepared for PrismPrepared<'_> {
             variant: None,
             warnings,
             detail: Detail::Prism(Box::new(view)),
+            colours: None,
+            source: None,
         }
     }
 }
@@ -407,6 +413,10 @@ impl SheetView for PrismPlan {
     }
     fn measured_at_index(&self, index: f64) -> Vec<crate::sheets::Measured> {
         PrismPlan { plan: self.plan.with_index(index), ..self.clone() }.measured()
+    }
+
+    fn colour_paths(&self, index: f64) -> Option<Vec<(String, Vec<crate::geom::Point>)>> {
+        Some(crate::sheets::angled_drawing::ray_paths(&self.plan.with_index(index)))
     }
     fn measured(&self) -> Vec<crate::sheets::Measured> {
         let p = &self.plan;

@@ -195,6 +195,8 @@ impl Kind for RadiusKind {
             heights_mm: heights,
             angles_deg: None,
             line: s.at.line(),
+            lights: Vec::new(),
+            source: None,
         })
     }
     fn prepare<'a>(
@@ -301,6 +303,8 @@ impl Prepared for RadiusPrepared<'_> {
             warnings: Vec::new(),
             wavelength_nm: self.kit.ray_box.wavelength_nm,
             detail: Detail::Radius(Box::new(view)),
+            colours: None,
+            source: None,
         }
     }
 }

@@ -55,6 +55,12 @@ pub struct SheetSpec {
     pub angles_deg: Option<Vec<f64>>,
     /// Line of the `[[sheets]]` entry.
     pub line: usize,
+    /// With `all_colours = true`: every colour of the ray box with the
+    /// piece's index in it (empty otherwise). Set by [`Lesson::check`].
+    pub lights: Vec<super::colours::Light>,
+    /// The paper the piece's material formula comes from, for a built-in
+    /// material. Set by [`Lesson::check`].
+    pub source: Option<&'static str>,
 }
 
 impl SheetSpec {
@@ -74,6 +80,8 @@ impl SheetSpec {
             heights_mm: None,
             angles_deg,
             line: entry.at.line(),
+            lights: Vec::new(),
+            source: None,
         }
     }
 }
@@ -119,8 +127,14 @@ impl Lesson {
             };
             // Whether the piece fits comes first: it says more than a field the
             // kind does not take.
-            let spec = kind.def().check(entry, &kit)?;
-            check_all_colours(entry, &kit)?;
+            let mut spec = kind.def().check(entry, &kit)?;
+            let lights = check_all_colours(entry, &kit, kind)?;
+            // A kind may set its colours itself (spectrum sheets always trace them).
+            if !lights.is_empty() {
+                spec.lights = lights;
+            }
+            let kp = &kit.pieces[spec.piece];
+            spec.source = kit.materials.get(&kp.material).and_then(|m| m.source()).map(|p| p.citation);
             let accepted: Vec<&str> =
                 kind.def().fields().iter().chain(SHARED_FIELDS).map(|f| f.name).collect();
             entry.reject_unknown(&accepted)?;
@@ -133,18 +147,36 @@ impl Lesson {
 /// Fields every kind of sheet accepts besides `kind` and `piece`, checked here.
 pub const SHARED_FIELDS: &[SheetField] = &[SheetField {
     name: "all_colours",
-    about: "Trace every guide ray in every colour of the ray box (needs a material with dispersion and two colours or more). Not made yet: only false is accepted for now.",
-    value: FieldValue::Flag { default: false, only: Some(false) },
+    about: "Trace every guide ray in every colour of the ray box; the key gives each colour's answer and the spread (needs a material with dispersion and two colours or more). Curved-face, focal, block and prism sheets; a spectrum sheet always traces every colour; other kinds accept only false.",
+    value: FieldValue::Flag { default: false, only: None },
 }];
 
+/// [`SHARED_FIELDS`] as `kind` reads them: `all_colours` only false where
+/// the kind does not trace colours.
+pub fn shared_fields(kind: SheetKind) -> Vec<SheetField> {
+    SHARED_FIELDS
+        .iter()
+        .map(|f| match f.value {
+            FieldValue::Flag { default, .. } if f.name == "all_colours" && !kind.def().takes_colours() => {
+                SheetField { value: FieldValue::Flag { default, only: Some(false) }, ..*f }
+            }
+            _ => *f,
+        })
+        .collect()
+}
+
 /// `all_colours = true`: every guide ray traced in every colour of the ray box.
-/// Needs a material with dispersion and at least two colours; the colour
-/// traces themselves are not made yet, so it is refused with a located
-/// "not yet" rather than ignored.
-fn check_all_colours(entry: &SheetEntry, kit: &Kit) -> Result<(), KitError> {
-    let Some(flag) = entry.flag("all_colours")? else { return Ok(()) };
+/// Needs a material with dispersion, at least two colours and a kind that
+/// traces colours ([`super::Kind::takes_colours`]); gives each colour with the
+/// piece's index in it (empty without the flag).
+fn check_all_colours(
+    entry: &SheetEntry,
+    kit: &Kit,
+    kind: SheetKind,
+) -> Result<Vec<super::colours::Light>, KitError> {
+    let Some(flag) = entry.flag("all_colours")? else { return Ok(Vec::new()) };
     if !flag.value {
-        return Ok(());
+        return Ok(Vec::new());
     }
     let kp = &kit.pieces[entry.piece];
     let disperses = kit.materials.get(&kp.material).is_some_and(|m| m.dispersion().disperses());
@@ -167,10 +199,31 @@ fn check_all_colours(entry: &SheetEntry, kit: &Kit) -> Result<(), KitError> {
             "add colours = [ { name = \"red\", wavelength_nm = 656.3 }, { name = \"blue\", wavelength_nm = 486.1 } ] to [ray_box]",
         ));
     }
-    Err(flag.at.error(
-        "all_colours is not made yet: this version traces every sheet at the ray box's wavelength_nm only",
-        "remove all_colours = true for now, or set [ray_box] wavelength_nm to one colour's wavelength for a key in that colour",
-    ))
+    if !kind.def().takes_colours() {
+        let takes: Vec<String> = SheetKind::ALL
+            .iter()
+            .filter(|k| k.def().takes_colours())
+            .map(|k| format!("\"{}\"", k.as_str()))
+            .collect();
+        return Err(flag.at.error(
+            format!("{} sheets do not trace colours yet", kind.as_str()),
+            format!(
+                "remove all_colours = true, or set [ray_box] wavelength_nm to one colour's wavelength for a key in that colour; all_colours works on {}",
+                takes.join(", ")
+            ),
+        ));
+    }
+    let material = kit.materials.get(&kp.material).expect("disperses, so it exists");
+    Ok(kit
+        .ray_box
+        .colours
+        .iter()
+        .map(|c| super::colours::Light {
+            name: c.name.clone(),
+            wavelength_nm: c.wavelength_nm,
+            index: material.index_at(c.wavelength_nm),
+        })
+        .collect())
 }
 
 impl std::ops::Deref for Lesson {

@@ -13,7 +13,7 @@ use pdf_writer::{Content, Str};
 use crate::font;
 use crate::geom::{Point, Vec2};
 use crate::scene::{
-    Anchor, Dash, Gray, Item, MM_PER_PT, MarkerShape, OutlinePart, Page, Rect, Stroke, Weight,
+    Anchor, Dash, Gray, Item, MM_PER_PT, MarkerShape, OutlinePart, Page, Paint, Rect, Stroke, Weight,
 };
 
 use super::bezier::{Cubic, arc_cubics};
@@ -185,7 +185,7 @@ impl Painter<'_> {
             MarkerShape::Saltire => self.two_strokes(at, Vec2::new(h, h), Vec2::new(h, -h), stroke),
             MarkerShape::Dot => {
                 self.circle(at, h);
-                self.c.set_fill_gray(f(stroke.gray));
+                self.fill_paint(stroke.paint);
                 self.c.fill_nonzero();
             }
             MarkerShape::Ring => {
@@ -300,15 +300,35 @@ impl Painter<'_> {
     /// Width, grey and dash of the next stroke, all in mm under the page's CTM.
     fn set_stroke(&mut self, s: &Stroke) {
         self.c.set_line_width(f(s.width_mm));
-        self.c.set_stroke_gray(f(s.gray));
+        match s.paint {
+            Paint::Grey(g) => {
+                self.c.set_stroke_gray(f(g));
+            }
+            Paint::Rgb(rgb) => {
+                let [r, g, b] = rgb.map(|v| f32::from(v) / 255.0);
+                self.c.set_stroke_rgb(r, g, b);
+            }
+        }
         let dash: Vec<f32> = match s.dash {
             Dash::Solid => Vec::new(),
-            Dash::Dashed { on_mm, off_mm } => vec![f(on_mm), f(off_mm)],
-            Dash::DashDot { long_mm, short_mm, gap_mm } => {
-                vec![f(long_mm), f(gap_mm), f(short_mm), f(gap_mm)]
+            Dash::Dashed { .. } | Dash::DashDot { .. } | Dash::Beads { .. } => {
+                s.dash.pattern_mm().into_iter().map(f).collect()
             }
         };
         self.c.set_dash_pattern(dash, 0.0);
+    }
+
+    /// The fill colour of the next fill: a grey (`g`) or an sRGB colour (`rg`).
+    fn fill_paint(&mut self, paint: Paint) {
+        match paint {
+            Paint::Grey(g) => {
+                self.c.set_fill_gray(f(g));
+            }
+            Paint::Rgb(rgb) => {
+                let [r, g, b] = rgb.map(|v| f32::from(v) / 255.0);
+                self.c.set_fill_rgb(r, g, b);
+            }
+        }
     }
 }
 

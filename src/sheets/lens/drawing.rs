@@ -232,6 +232,31 @@ pub fn signed(h: f64) -> String {
     }
 }
 
+/// A traced ray's path as the key draws it: from where the guide line ends,
+/// through every point where it met the outline, to its far end (12 mm past
+/// a real crossing, past the second trace-back point of a virtual one, else
+/// 30 mm on), unclipped.
+pub fn key_path(s: &super::super::Setup, r: &super::RayAnswer) -> Vec<Point> {
+    let tr = &r.trace;
+    let mut pts: Vec<Point> = tr.path.iter().skip(1).copied().collect();
+    // Start where the guide line ends, so the key overlays the sheet cleanly.
+    pts.insert(0, Point::new(s.x_min + 11.0, r.height_mm));
+    let last = *pts.last().unwrap_or(&tr.incoming.origin);
+    let far = match tr.outcome {
+        Outcome::Crosses { x_mm } => {
+            let extra = 12.0_f64.min(s.x_max - x_mm - 1.0).max(0.0);
+            Point::new(x_mm, 0.0) + tr.exit_dir * (extra / tr.exit_dir.x.max(0.2))
+        }
+        Outcome::Virtual { .. } => {
+            let to_x = r.trace_back.map(|t| t[1].x + 8.0).unwrap_or(last.x + 40.0).min(s.x_max - 1.0);
+            last + tr.exit_dir * ((to_x - last.x) / tr.exit_dir.x.max(0.2))
+        }
+        _ => last + tr.exit_dir * 30.0,
+    };
+    pts.push(far);
+    pts
+}
+
 /// What the key adds on top of the student drawing: traced rays, crossing
 /// marks with values, the paraxial focus, the rear principal plane and, for
 /// diverging pieces, the backward extensions, trace-back points and virtual focus.
@@ -243,21 +268,9 @@ pub fn key_extras(plan: &SheetPlan, base: &mut Drawing, bounds: Rect, w: &Words)
     let mut marks: Vec<(f64, Vec<String>, bool)> = Vec::new();
     for r in plan.rays_top_down() {
         let tr = &r.trace;
-        let mut pts: Vec<Point> = tr.path.iter().skip(1).copied().collect();
-        // Start where the guide line ends, so the key overlays the sheet cleanly.
-        pts.insert(0, Point::new(s.x_min + 11.0, r.height_mm));
+        let mut pts = key_path(&s, r);
+        let far = pts.pop().expect("a key path has its far end");
         let last = *pts.last().unwrap_or(&tr.incoming.origin);
-        let far = match tr.outcome {
-            Outcome::Crosses { x_mm } => {
-                let extra = 12.0_f64.min(s.x_max - x_mm - 1.0).max(0.0);
-                Point::new(x_mm, 0.0) + tr.exit_dir * (extra / tr.exit_dir.x.max(0.2))
-            }
-            Outcome::Virtual { .. } => {
-                let to_x = r.trace_back.map(|t| t[1].x + 8.0).unwrap_or(last.x + 40.0).min(s.x_max - 1.0);
-                last + tr.exit_dir * ((to_x - last.x) / tr.exit_dir.x.max(0.2))
-            }
-            _ => last + tr.exit_dir * 30.0,
-        };
         pts.push(clip_to(last, far, &bounds));
         base.placer.block_path(&pts);
         items.push(Item::Polyline { points: pts, closed: false, stroke: ray_stroke });

@@ -88,6 +88,10 @@ impl Kind for CurvedFaceKind {
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(SheetKind::CurvedFace, entry, kit)
     }
+    fn takes_colours(&self) -> bool {
+        true
+    }
+
     fn prepare<'a>(&self, kit: &'a Kit, spec: &'a SheetSpec, paper: &'a PaperSpec) -> Box<dyn Prepared + 'a> {
         Box::new(LensPrepared::new(kit, spec, paper))
     }
@@ -109,6 +113,10 @@ impl Kind for FocalKind {
     fn check(&self, entry: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(SheetKind::Focal, entry, kit)
     }
+    fn takes_colours(&self) -> bool {
+        true
+    }
+
     fn prepare<'a>(&self, kit: &'a Kit, spec: &'a SheetSpec, paper: &'a PaperSpec) -> Box<dyn Prepared + 'a> {
         Box::new(LensPrepared::new(kit, spec, paper))
     }
@@ -225,6 +233,8 @@ fn check(kind: SheetKind, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitErr
         heights_mm: heights,
         angles_deg: None,
         line: s.at.line(),
+        lights: Vec::new(),
+        source: None,
     })
 }
 

@@ -373,6 +373,8 @@ pub fn plan_sheet_in_band(
             rules,
             setup: super::Setup { x_min, x_max, y_min: -y_half, y_max: y_half },
         })),
+        colours: None,
+        source: None,
     }
 }
 

@@ -87,6 +87,36 @@ pub fn outcome_words(o: &Outcome, w: &Words) -> String {
 }
 
 impl LensPlan {
+    /// The same guide heights traced again with the piece's index replaced by
+    /// `index`; each ray keeps its letter, grading and accept range. `None`
+    /// when the lens shape is not valid at that index.
+    pub fn at_index(&self, index: f64) -> Option<LensPlan> {
+        let p = &self.outline.piece;
+        let lens =
+            crate::optics::Lens::new(p.front(), p.back(), p.thickness_mm(), p.height_mm(), index).ok()?;
+        let outline = crate::optics::Outline::new(lens, self.entry);
+        let mut copy = self.clone();
+        copy.rays = self
+            .rays
+            .iter()
+            .map(|r| {
+                let mut a = super::answer_ray(
+                    &outline,
+                    &self.rules,
+                    self.band.as_ref(),
+                    r.height_mm,
+                    r.letter.clone(),
+                );
+                a.graded = r.graded;
+                a.tolerance_mm = r.tolerance_mm;
+                a
+            })
+            .collect();
+        copy.paraxial = crate::optics::Paraxial::of(&outline.piece, self.entry);
+        copy.outline = outline;
+        Some(copy)
+    }
+
     /// Where the table's two measurement columns measure from, as x in the
     /// sheet frame: curved-face sheets from the flat face (the entry vertex)
     /// and the curved face (the exit vertex); focal sheets from the exit
@@ -162,31 +192,28 @@ impl SheetView for LensPlan {
     }
 
     fn measured_at_index(&self, index: f64) -> Vec<Measured> {
-        let p = &self.outline.piece;
-        let Ok(lens) = crate::optics::Lens::new(p.front(), p.back(), p.thickness_mm(), p.height_mm(), index)
-        else {
-            return Vec::new();
-        };
-        let outline = crate::optics::Outline::new(lens, self.entry);
-        let mut copy = self.clone();
-        copy.rays = self
-            .rays
+        self.at_index(index).map(|c| c.measured()).unwrap_or_default()
+    }
+
+    fn colour_paths(&self, index: f64) -> Option<Vec<(String, Vec<crate::geom::Point>)>> {
+        let copy = self.at_index(index)?;
+        Some(
+            copy.rays_top_down()
+                .into_iter()
+                .map(|r| (r.letter.clone(), drawing::key_path(&copy.setup, r)))
+                .collect(),
+        )
+    }
+
+    fn aberration_mm(&self) -> Option<f64> {
+        // Longitudinal spherical aberration: paraxial focus to each graded
+        // ray's crossing along the axis, the largest.
+        let f = self.paraxial.rear_focus_x()?;
+        self.rays
             .iter()
-            .map(|r| {
-                let mut a = super::answer_ray(
-                    &outline,
-                    &self.rules,
-                    self.band.as_ref(),
-                    r.height_mm,
-                    r.letter.clone(),
-                );
-                a.graded = r.graded;
-                a.tolerance_mm = r.tolerance_mm;
-                a
-            })
-            .collect();
-        copy.outline = outline;
-        copy.measured()
+            .filter(|r| r.graded)
+            .filter_map(|r| r.crossing_from_entry_mm.map(|x| (f - x).abs()))
+            .max_by(f64::total_cmp)
     }
 
     fn measured(&self) -> Vec<Measured> {
