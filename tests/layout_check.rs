@@ -820,3 +820,38 @@ fn a_100_mm_half_disc_split_over_two_pages() {
         }
     }
 }
+
+/// Regression: a biconvex focal key whose outer guide rays lie above the safe
+/// band (4 rays 9.9 mm apart on a 30 mm tall piece): the aberration plot's
+/// axes were sized to the sampled curve only, so ray A's dot fell below the
+/// frame onto the "15" tick number (found by a sweep of random kits on every
+/// paper).
+#[test]
+fn aberration_plot_dot_beyond_the_curve_on_a_tick_number() {
+    let text = random_kit(1, 0.277, 0.006, 0.735, 1.5196, 4, "A4");
+    assert!(text.contains("radius_mm = 87.7") && text.contains("spacing_mm = 9.9"), "{text}");
+    let lesson = Lesson::from_toml(&text, "random.toml").expect("valid");
+    // Rays at ±4.95 and ±14.85 mm, the band 10.7–13.6 mm: none is graded,
+    // and the teacher is told so before printing.
+    let plans = plan_lesson(&lesson, &lesson.paper);
+    assert!(
+        plans[0].warnings.iter().any(|w| w.contains("nothing on this sheet is graded")),
+        "{:?}",
+        plans[0].warnings
+    );
+    let defects = kit_defects(&lesson);
+    assert!(defects.is_empty(), "{text}\n{}", defects.join("\n"));
+}
+
+/// Regression: a weak biconcave piece's focal key on A5, where the lead-in is
+/// capped by the paper and the virtual focus (about 85 mm before the piece)
+/// came within 15 mm of the ray box: guide labels C and D sat on the focus's
+/// marks (found by the same sweep).
+#[test]
+fn a5_virtual_focus_marks_under_guide_labels() {
+    let text = random_kit(2, 0.557, 0.286, 0.015, 1.5616, 5, "A5");
+    assert!(text.contains("radius_mm = 115.7"), "{text}");
+    let lesson = Lesson::from_toml(&text, "random.toml").expect("valid");
+    let defects = kit_defects(&lesson);
+    assert!(defects.is_empty(), "{text}\n{}", defects.join("\n"));
+}

@@ -33,6 +33,12 @@ pub const LEAD_IN_MM: f64 = 45.0;
 /// Space left after the furthest crossing for its label, mm.
 pub const TAIL_MM: f64 = 12.0;
 
+/// Space kept before a virtual focus (or crossing) for the ray box and the
+/// guide lines' labels beside it, which would otherwise sit on the focus's
+/// marks where the lead-in is capped by the paper, mm. The same as the
+/// uncapped lead-in's 25 mm.
+pub const VIRTUAL_ROOM_MM: f64 = 25.0;
+
 /// One traced guide ray with its answers.
 #[derive(Clone, Debug, PartialEq)]
 pub struct RayAnswer {
@@ -144,7 +150,7 @@ pub(crate) fn lead_in_for(paraxial: &Paraxial, paper: &PaperSpec) -> f64 {
     let printable = page_w - 2.0 * paper.margin_mm;
     match paraxial.rear_focus_x() {
         // max then min, not clamp: tiny paper must not panic.
-        Some(x) if x < 0.0 => (-x + 25.0).min(printable * 0.6).max(LEAD_IN_MM),
+        Some(x) if x < 0.0 => (-x + VIRTUAL_ROOM_MM).min(printable * 0.6).max(LEAD_IN_MM),
         _ => LEAD_IN_MM,
     }
 }
@@ -303,6 +309,12 @@ pub fn plan_sheet_in_band(
                     ));
                 }
             }
+            if !rays.is_empty() && !rays.iter().any(|r| r.in_band) {
+                warnings.push(format!(
+                    "no guide ray lies in the safe band {:.1}–{:.1} mm, so nothing on this sheet is graded: set heights_mm to put at least one ray there (move the ray box, or change its spacing_mm)",
+                    b.min_mm, b.max_mm
+                ));
+            }
         }
     }
     for r in &rays {
@@ -324,7 +336,7 @@ pub fn plan_sheet_in_band(
             if x > 0.0 {
                 x_max = x_max.max(x + TAIL_MM);
             } else {
-                x_min = x_min.min(x - 15.0);
+                x_min = x_min.min(x - VIRTUAL_ROOM_MM);
             }
         }
         if let Some(tb) = r.trace_back {
@@ -335,7 +347,7 @@ pub fn plan_sheet_in_band(
         if f > 0.0 {
             x_max = x_max.max(f + TAIL_MM);
         } else {
-            x_min = x_min.min(f - 15.0);
+            x_min = x_min.min(f - VIRTUAL_ROOM_MM);
         }
     }
     // Room across the axis for the traced rays inside the drawing (they may leave steeply).

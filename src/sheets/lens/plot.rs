@@ -24,17 +24,39 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect, w: &Words) -> Vec<Item> {
     if pts.is_empty() {
         return items;
     }
-    let (mut y0, mut y1) =
-        pts.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.1), b.max(p.1)));
+    // Every guide ray's own crossing is a dot on the plot, even one beyond
+    // the sampled curve (a ray outside the safe band): the axes take them in.
+    let dots: Vec<(f64, f64)> = plan
+        .rays
+        .iter()
+        .filter_map(|r| Some((r.height_mm.abs(), (r.crossing_from_entry_mm? - t).abs())))
+        .filter(|&(h, d)| h > 0.0 && h.is_finite() && d.is_finite())
+        .collect();
+    let (mut y0, mut y1) = pts
+        .iter()
+        .chain(&dots)
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.1), b.max(p.1)));
     if let Some(p) = parax {
         y0 = y0.min(p);
         y1 = y1.max(p);
     }
+    let (lowest, highest) = (y0, y1);
     let ystep = nice_step(y1 - y0, 4.0);
     y0 = (y0 / ystep).floor() * ystep;
     y1 = ((y1 / ystep).ceil() * ystep).max(y0 + ystep);
-    let xstep = nice_step(top_h, 4.0);
-    let x1 = (top_h / xstep).ceil() * xstep;
+    // A dot on the frame would sit on a tick number: keep a step's room.
+    if lowest - y0 < 0.03 * (y1 - y0) {
+        y0 -= ystep;
+    }
+    if y1 - highest < 0.03 * (y1 - y0) && dots.iter().any(|d| d.1 == highest) {
+        y1 += ystep;
+    }
+    let widest = dots.iter().map(|d| d.0).fold(top_h, f64::max);
+    let xstep = nice_step(widest, 4.0);
+    let mut x1 = (widest / xstep).ceil() * xstep;
+    if dots.iter().any(|d| x1 - d.0 < 0.03 * x1) {
+        x1 += xstep;
+    }
     // Inner plot box, leaving room for tick labels and titles.
     let inner = Rect {
         min: Point::new(area.min.x + 9.0, area.min.y + 8.0),
@@ -93,18 +115,13 @@ pub fn aberration_plot(plan: &SheetPlan, area: Rect, w: &Words) -> Vec<Item> {
         closed: false,
         stroke: Stroke::solid(0.35),
     });
-    for r in &plan.rays {
-        if let Some(x) = r.crossing_from_entry_mm {
-            let h = r.height_mm.abs();
-            if h <= x1 && h > 0.0 {
-                items.push(Item::Marker {
-                    at: map(h, (x - t).abs()),
-                    shape: MarkerShape::Dot,
-                    size_mm: 1.4,
-                    stroke: Stroke::solid(0.2),
-                });
-            }
-        }
+    for &(h, d) in &dots {
+        items.push(Item::Marker {
+            at: map(h, d),
+            shape: MarkerShape::Dot,
+            size_mm: 1.4,
+            stroke: Stroke::solid(0.2),
+        });
     }
     items.push(text(
         Point::new(inner.min.x, area.max.y - 3.5),
