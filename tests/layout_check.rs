@@ -855,3 +855,39 @@ fn a5_virtual_focus_marks_under_guide_labels() {
     let defects = kit_defects(&lesson);
     assert!(defects.is_empty(), "{text}\n{}", defects.join("\n"));
 }
+
+/// The deep sweep, too slow for every `cargo test` (about 4000 kits, some
+/// seconds in release): every kind of random kit on a fixed spread of
+/// numbers, each checked on every paper as above. Run it before a release
+/// and after any layout change:
+/// `cargo test --release --test layout_check -- --ignored`.
+/// Each defect it finds becomes a named regression test above.
+#[test]
+#[ignore = "deep sweep: run with --release -- --ignored"]
+fn sweep_random_kits_of_every_kind() {
+    let mut failed = Vec::new();
+    let mut total = 0;
+    for kind in 0u8..10 {
+        for i in 0..150u32 {
+            // A fixed spread over [0, 1) for each number (no RNG, so the same kits every run).
+            let f = |k: u32| f64::from((i * 7919 + k * 104_729 + u32::from(kind) * 31) % 1000) / 1000.0;
+            let text = random_kit(kind, f(1), f(2), f(3), 1.45 + 0.15 * f(4), 1 + (i % 5), "A4");
+            let Ok(lesson) = Lesson::from_toml(&text, "random.toml") else { continue };
+            total += 1;
+            let defects = kit_defects(&lesson);
+            if !defects.is_empty() {
+                failed.push(format!(
+                    "random_kit({kind}, {:.3}, {:.3}, {:.3}, {:.4}, {}):\n{}",
+                    f(1),
+                    f(2),
+                    f(3),
+                    1.45 + 0.15 * f(4),
+                    1 + (i % 5),
+                    defects.iter().take(5).cloned().collect::<Vec<_>>().join("\n")
+                ));
+            }
+        }
+    }
+    assert!(total > 1000, "only {total} of the swept kits were valid");
+    assert!(failed.is_empty(), "{} of {total} kits with defects:\n{}", failed.len(), failed.join("\n\n"));
+}
