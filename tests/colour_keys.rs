@@ -128,6 +128,47 @@ fn thin_lens_focus_per_colour_is_the_lens_makers() {
     }
 }
 
+/// An index sheet in every colour: each colour's angle of refraction at the
+/// flat face's centre is Snell's law, sin r = n(λ)·sin i (DESIGN.md, sheet 3:
+/// the ray enters along a radius, so only the flat face bends it); a ray past
+/// every colour's critical angle is totally reflected in all of them, and
+/// reflection does not disperse, so it gets no coloured path.
+#[test]
+fn index_sheet_per_colour_is_snells_law_at_the_centre() {
+    let kit = format!(
+        "{HEAD}[[pieces]]\nid = \"hd-40\"\nmaterial = \"pmma\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = 40 }}\nthickness_mm = 40\nheight_mm = 80\n[[sheets]]\nkind = \"index\"\npiece = \"hd-40\"\nangles_deg = [15, 30, 55]\nall_colours = true\n"
+    );
+    let a = answers(&kit);
+    let sheet = &a["sheets"][0];
+    let mut r_of = BTreeMap::new();
+    for name in ["red", "green", "blue"] {
+        let c = colour(sheet, name);
+        let n = c["index"].as_f64().expect("index");
+        for (ray, i) in [("A", 15.0_f64), ("B", 30.0)] {
+            let want = (n * i.to_radians().sin()).asin().to_degrees();
+            let got = value(c, ray, "refraction_angle_deg");
+            assert!((got - want).abs() < 1e-9, "{name} {ray}: {got} against {want}");
+            r_of.insert((name, ray), got);
+        }
+        // 55° is past asin(1/n) ≈ 42° in every colour.
+        let c_obs = c["measured"].as_array().expect("measured").iter().find(|m| m["ray"] == "C").expect("C");
+        assert_eq!(c_obs["observation"], "total-internal-reflection", "{c_obs}");
+    }
+    // Red bends least (smallest n): at 30° about 0.4° less than blue, from
+    // asin(1.49007·0.5) = 48.16° and asin(1.49837·0.5) = 48.51° (N_RED, N_BLUE above).
+    let spread = r_of[&("blue", "B")] - r_of[&("red", "B")];
+    assert!((spread - 0.35).abs() < 0.02, "{spread}");
+    // The key draws coloured paths for A and B only.
+    let lesson = Lesson::from_toml(&kit, "colours.toml").expect("valid");
+    let plans = plan_lesson(&lesson, &a4());
+    let set = plans[0].colours.as_ref().expect("colours traced");
+    for run in &set.runs {
+        let drawn: Vec<&str> =
+            run.paths.iter().filter(|(_, p)| !p.is_empty()).map(|(l, _)| l.as_str()).collect();
+        assert_eq!(drawn, ["A", "B"], "{}", run.light.name);
+    }
+}
+
 #[test]
 fn spectrum_deviation_per_colour_is_snell_at_both_sides() {
     let kit = format!(

@@ -111,12 +111,12 @@ angles_deg = [10, 30]
 [[sheets]]
 kind = "critical-angle"
 piece = "hd30"
-all_colours = false
 
 [[sheets]]
 kind = "radius"
 piece = "hd30"
 half_chord_mm = 20
+all_colours = false
 
 [paper]
 size = " a4"
@@ -276,7 +276,7 @@ const REFUSED: &[(&str, &str, &str)] = &[
     ("a face neither flat nor a table", "front = \"flat\"", "front = \"plane\""),
     ("an unknown kind", "kind = \"radius\"", "kind = \"diameter\""),
     ("vary_entry on a curved-face sheet", "vary_entry = false", "vary_entry = true"),
-    ("all colours (not made yet)", "all_colours = false", "all_colours = true"),
+    ("all colours on a radius sheet (it traces no rays)", "all_colours = false", "all_colours = true"),
     // fields that belong together or apart within one table
     ("a prism with a thickness", "apex_deg = 60", "apex_deg = 60\nthickness_mm = 10"),
     ("a block with an apex", "shape = \"block\"", "shape = \"block\"\napex_deg = 60"),

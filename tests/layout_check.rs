@@ -258,6 +258,12 @@ fn page_texts(page: &Page) -> Vec<(String, bool)> {
     flat.texts.into_iter().map(|t| (t.text, t.cut)).collect()
 }
 
+/// Whether `text` holds a digit, a point and six or more digits.
+fn has_long_decimals(text: &str) -> bool {
+    let c: Vec<char> = text.chars().collect();
+    c.windows(8).any(|w| w[0].is_ascii_digit() && w[1] == '.' && w[2..].iter().all(char::is_ascii_digit))
+}
+
 fn page_defects(page: &Page, printable: &Rect, guide_offset: Option<Vec2>) -> Vec<String> {
     let mut flat = Flat::default();
     flatten(&page.items, Vec2::new(0.0, 0.0), None, &mut flat);
@@ -269,6 +275,13 @@ fn page_defects(page: &Page, printable: &Rect, guide_offset: Option<Vec2>) -> Ve
             if shrink(&a.rect, SLACK_MM).overlaps(&shrink(&b.rect, SLACK_MM)) {
                 out.push(format!("{name}: text {:?} overlaps text {:?}", a.text, b.text));
             }
+        }
+    }
+    // A number printed with every digit a float has (an index from a
+    // dispersion formula written with `{}`): no sheet needs six decimals.
+    for t in &flat.texts {
+        if has_long_decimals(&t.text) {
+            out.push(format!("{name}: text {:?} prints a number with six or more decimals", t.text));
         }
     }
     // Text against lines and marks.
@@ -633,6 +646,9 @@ fn the_check_catches_each_kind_of_defect() {
         to: Point::new(120.0, y),
         stroke: Stroke::solid(0.3),
     };
+    let digits = page(vec![label(50.0, 50.0, "n = 1.490593755612907")]);
+    assert_eq!(page_defects(&digits, &printable, None).len(), 1);
+    assert!(page_defects(&page(vec![label(50.0, 50.0, "n = 1.4906")]), &printable, None).is_empty());
     let wrong = page(vec![guide(40.0), guide(32.0), label(50.0, 33.5, "C 0 mm")]);
     assert_eq!(page_defects(&wrong, &printable, Some(Vec2::new(0.0, 40.0))).len(), 1);
     let right = page(vec![guide(40.0), guide(32.0), label(50.0, 41.0, "C 0 mm")]);
@@ -729,10 +745,18 @@ fn random_kit(kind: u8, a: f64, b: f64, c: f64, n: f64, rays: u32, paper: &str) 
             40.0 + 40.0 * a,
             30.0 + 30.0 * b
         ),
+        // A half-disc with every colour traced: on a curved-face, index or critical-angle sheet.
         9 => {
             let r = 20.0 + 40.0 * a;
+            let sheet = if c < 0.4 {
+                "curved-face".to_string()
+            } else if c < 0.7 {
+                format!("index\"\nenter = \"{}", if b > 0.5 { "flat" } else { "curved" })
+            } else {
+                "critical-angle".to_string()
+            };
             format!(
-                "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = {r:.1} }}\nthickness_mm = {r:.1}\nheight_mm = {:.1}\n[[sheets]]\nkind = \"curved-face\"\npiece = \"p\"\nall_colours = true\n",
+                "[[pieces]]\nid = \"p\"\nmaterial = \"m\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = {r:.1} }}\nthickness_mm = {r:.1}\nheight_mm = {:.1}\n[[sheets]]\nkind = \"{sheet}\"\npiece = \"p\"\nall_colours = true\n",
                 2.0 * r
             )
         }
@@ -890,4 +914,46 @@ fn sweep_random_kits_of_every_kind() {
     }
     assert!(total > 1000, "only {total} of the swept kits were valid");
     assert!(failed.is_empty(), "{} of {total} kits with defects:\n{}", failed.len(), failed.join("\n\n"));
+}
+
+/// Regression: a 20 mm half-disc's index sheet with six rays in three
+/// colours on A4 landscape: the key's text (each colour's angles, the
+/// spreads) wrapped to 12 lines where the page's text block holds 10, and
+/// the build stopped with "shorten it" although the kit is valid (found by
+/// the deep sweep once the protractor kinds took colours). Such a sheet now
+/// takes a cover page for its text and a page for its drawing.
+#[test]
+fn colour_key_text_too_long_for_one_page() {
+    let text = random_kit(9, 0.008, 0.737, 0.466, 1.4792, 1, "A4");
+    assert!(text.contains("kind = \"index\"") && text.contains("all_colours = true"), "{text}");
+    let lesson = Lesson::from_toml(&text, "random.toml").expect("valid");
+    let defects = kit_defects(&lesson);
+    assert!(defects.is_empty(), "{text}\n{}", defects.join("\n"));
+    let t = Templates::shipped().expect("shipped words");
+    let landscape = PaperSpec {
+        size: PaperSize::named("A4").expect("A4"),
+        orientation: Orientation::Landscape,
+        margin_mm: 10.0,
+    };
+    let plans = plan_lesson(&lesson, &landscape);
+    let key = pages_for("t", &plans[0], &landscape, &t, Role::Key).expect("laid out");
+    let sheet = pages_for("t", &plans[0], &landscape, &t, Role::Student).expect("laid out");
+    assert_eq!(
+        (key.len(), sheet.len()),
+        (2, 2),
+        "a cover and one drawing page, for the key and its sheet alike"
+    );
+}
+
+/// Regression: a biconcave piece's focal key on A4 landscape whose lowest
+/// trace-back point (E2, 75 mm past the exit face) lay 4 mm inside the
+/// drawing's room across the axis: its label went below the point and was
+/// cut by the window's edge (found by the proptest above).
+#[test]
+fn trace_back_label_cut_by_the_window() {
+    let text = random_kit(2, 0.151_462, 0.510_428, 0.780_469, 1.583_701, 5, "A4");
+    assert!(text.contains("radius_mm = 75.1") && text.contains("spacing_mm = 10.2"), "{text}");
+    let lesson = Lesson::from_toml(&text, "random.toml").expect("valid");
+    let defects = kit_defects(&lesson);
+    assert!(defects.is_empty(), "{text}\n{}", defects.join("\n"));
 }

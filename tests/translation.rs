@@ -249,11 +249,12 @@ fn pseudo_words_keep_lengths_and_placeholders() {
     assert_eq!(ascii_words("Lens maker's, 10 mm ABCD"), ["lens", "maker", "abcd"]);
 }
 
-/// Edited key text that cannot fit above the table is refused, naming the
-/// words.toml line and key, never drawn over the table.
+/// Edited key text that cannot fit above the table, even on a cover page of
+/// its own (where a key too long for the page beside its drawing goes), is
+/// refused, naming the words.toml line and key, never drawn over the table.
 #[test]
 fn key_text_too_long_is_refused_with_its_key() {
-    let long = vec!["Ołžø øžł ħŧŋđ ž {value} ŋŧ."; 60].join(" ");
+    let long = vec!["Ołžø øžł ħŧŋđ ž {value} ŋŧ."; 300].join(" ");
     let text = format!("lens_tolerances = \"{long}\"\n");
     let overrides = BTreeMap::from([("words.toml".to_string(), ("mine/words.toml".to_string(), text))]);
     let t = Templates::with_overrides(&overrides).expect("the file is valid");
@@ -261,7 +262,7 @@ fn key_text_too_long_is_refused_with_its_key() {
     let paper = paper("A4");
     let plans = plan_lesson(&lesson, &paper);
     let err = match layout::layout(&lesson.kit.title, &plans, &paper, &t) {
-        Ok(_) => panic!("a key text of 60 sentences cannot fit"),
+        Ok(_) => panic!("a key text of 300 sentences cannot fit"),
         Err(e) => e.to_string(),
     };
     assert!(err.starts_with("mine/words.toml:1:19: field `lens_tolerances`"), "{err}");

@@ -164,12 +164,42 @@ pub fn colour_paths(d: &mut Drawing, bounds: &Rect, paths: &[ColourPath]) -> Vec
     for (style, pts) in &ends {
         let (a, b) = (pts[0], pts[1]);
         let u = (b - a).normalized().unwrap_or(Vec2::new(1.0, 0.0));
-        let reach = 0.4 * a.distance(b);
-        let spots: Vec<Point> =
-            (1..40).map(|k| 3.0 * f64::from(k)).filter(|on| *on < reach).map(|on| a + u * on).collect();
+        // Where several rays part from one point (a protractor's centre), an
+        // initial right at it could belong to any of them: start it where
+        // this ray is at least FAN_APART_MM from the others, or half way.
+        let len = a.distance(b);
+        let (from, reach) = match fan_start_mm(&ends, a, u) {
+            Some(f) => (f.min(0.5 * len), 0.75 * len),
+            None => (3.0, 0.4 * len),
+        };
+        let spots: Vec<Point> = (0..40)
+            .map(|k| from + 3.0 * f64::from(k))
+            .filter(|on| *on < reach)
+            .map(|on| a + u * on)
+            .collect();
         items.extend(initial_at(d, bounds, &style.initial, &spots, -u));
     }
     items
+}
+
+/// How far apart, across, rays that part from one point are where their
+/// colours' initials start, mm.
+const FAN_APART_MM: f64 = 8.0;
+
+/// Distance along a path starting at `a` in direction `u` at which it is
+/// [`FAN_APART_MM`] from every other ray starting at the same point (other
+/// rays: directions more than 1° apart; the colours of one ray part by less);
+/// `None` when no other ray starts there.
+fn fan_start_mm(ends: &[(&ColourStyle, Vec<Point>)], a: Point, u: Vec2) -> Option<f64> {
+    let min_sin = ends
+        .iter()
+        .filter(|(_, p)| p.len() >= 2 && p[0].distance(a) < 0.5)
+        .filter_map(|(_, p)| (p[1] - p[0]).normalized())
+        // Past 90° apart a ray is as far from this one as from their start.
+        .map(|v| if u.dot(v) < 0.0 { 1.0 } else { u.cross(v).abs() })
+        .filter(|s| *s > 1f64.to_radians().sin())
+        .fold(f64::INFINITY, f64::min);
+    min_sin.is_finite().then(|| (FAN_APART_MM / min_sin).max(3.0))
 }
 
 /// An initial near the first of `spots` where the placer finds room (its

@@ -160,29 +160,28 @@ fn compact_regions(paper: &PaperSpec, s: &crate::sheets::Setup) -> Option<Region
 }
 
 /// The regions of a one-page sheet for this plan, if it has one: the usual
-/// ones when the setup fits their drawing window, else the compact ones when
-/// the setup fits theirs and the text (with templates `t`) fits their blocks.
+/// ones when the setup fits their drawing window and the text (with
+/// templates `t`, student sheet and key) fits their text block, else the
+/// compact ones when the setup and the text fit theirs. `None`: the sheet
+/// takes a cover page, whose text block is taller (a key with every colour
+/// traced can have more to say than one page holds), and drawing pages.
 pub fn one_page_regions(p: &SheetPlan, paper: &PaperSpec, t: &Templates) -> Option<Regions> {
     let s = p.setup();
     let rg = regions(paper);
-    if tiling_for(s.length(), s.height(), &rg.drawing).pages() == 1 {
+    let text_fits = |r: &Regions| {
+        [Role::Student, Role::Key].iter().all(|&role| text_block(p, &r.text_block, t, role).is_ok())
+    };
+    if tiling_for(s.length(), s.height(), &rg.drawing).pages() == 1 && text_fits(&rg) {
         return Some(rg);
     }
     let c = compact_regions(paper, &s)?;
-    let text_fits =
-        [Role::Student, Role::Key].iter().all(|&role| text_block(p, &c.text_block, t, role).is_ok());
-    text_fits.then_some(c)
+    text_fits(&c).then_some(c)
 }
 
 /// Whether one plan prints on one page of `paper` (with the shipped text; see
 /// [`one_page_regions`]).
 pub fn fits_one_page(p: &SheetPlan, paper: &PaperSpec) -> bool {
-    let s = p.setup();
-    if tiling_for(s.length(), s.height(), &regions(paper).drawing).pages() == 1 {
-        return true;
-    }
-    compact_regions(paper, &s).is_some()
-        && Templates::shipped().is_ok_and(|t| one_page_regions(p, paper, &t).is_some())
+    shipped().is_some_and(|t| one_page_regions(p, paper, t).is_some())
 }
 
 /// How one plan's drawing is tiled on `paper` as it is turned (see
@@ -594,12 +593,22 @@ const COVER_MAP_MM: f64 = 38.0;
 /// page's window, not to scale, numbered by page, with how to join them.
 fn tile_cover(cols: &[f64], rows: &[f64], win: &Rect, room: &Rect, w: &Words) -> Vec<Item> {
     let mut out = Vec::new();
-    let note = w.fill("cover_note", &[("last", &(cols.len() * rows.len() + 1).to_string())]);
+    // One drawing page: the drawing would fit, but not with the text beside
+    // it (a long key): nothing to join, so no map.
+    let single = cols.len() * rows.len() == 1;
+    let note = if single {
+        w.say("cover_note_single").to_string()
+    } else {
+        w.fill("cover_note", &[("last", &(cols.len() * rows.len() + 1).to_string())])
+    };
     let lines = wrap(&note, BODY_PT, Weight::Regular, room.width() - 4.0);
     let mut y = room.max.y - 4.0;
     for l in &lines {
         out.push(text(Point::new(room.min.x + 2.0, y), l, BODY_PT, Weight::Regular, Anchor::Start));
         y -= leading(BODY_PT);
+    }
+    if single {
+        return out;
     }
     // The map: a grid of the pages as they join, each cell as wide as the
     // window is tall relative to its width, as large as the room allows.
@@ -645,17 +654,21 @@ fn tile_footer(
     let f = tr.footer;
     let mut out = across_bar(f.min.x + 1.0, f.min.y + 6.0, labels);
     let s = |n: usize| n.to_string();
-    let note = w.fill(
-        "tile_footer",
-        &[
-            ("page", &s(page.0 + 1)),
-            ("pages", &s(page.1)),
-            ("column", &s(at.0 + 1)),
-            ("columns", &s(tiling.columns)),
-            ("row", &s(at.1 + 1)),
-            ("rows", &s(tiling.rows)),
-        ],
-    );
+    let note = if tiling.pages() == 1 {
+        w.fill("tile_footer_single", &[("page", &s(page.0 + 1)), ("pages", &s(page.1))])
+    } else {
+        w.fill(
+            "tile_footer",
+            &[
+                ("page", &s(page.0 + 1)),
+                ("pages", &s(page.1)),
+                ("column", &s(at.0 + 1)),
+                ("columns", &s(tiling.columns)),
+                ("row", &s(at.1 + 1)),
+                ("rows", &s(tiling.rows)),
+            ],
+        )
+    };
 
     let lines = wrap(&note, 7.0, Weight::Regular, f.width() - 2.0);
     for (i, l) in lines.iter().enumerate() {

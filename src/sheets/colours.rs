@@ -91,7 +91,7 @@ pub fn colour_set(view: &dyn SheetView, lights: &[Light]) -> Option<ColourSet> {
 
 /// Cuts each path to start at the last point all colours of that ray share
 /// (white light until then), so the key draws a colour only where it has
-/// parted from the others.
+/// parted from the others; a ray whose colours never part is left out.
 fn part_paths(runs: &mut [ColourRun]) {
     let letters: Vec<String> =
         runs.first().map(|r| r.paths.iter().map(|p| p.0.clone()).collect()).unwrap_or_default();
@@ -102,10 +102,17 @@ fn part_paths(runs: &mut [ColourRun]) {
         while shared < shortest && paths.iter().all(|p| p[shared].distance(paths[0][shared]) < 1e-6) {
             shared += 1;
         }
+        // Every colour on one path (a totally reflected ray: reflection does
+        // not disperse): the light stays white, drawn once by the kind.
+        let never_parts = shared == shortest && paths.iter().all(|p| p.len() == shortest);
         let from = shared.saturating_sub(1);
         for r in runs.iter_mut() {
             if let Some(p) = r.paths.get_mut(k) {
-                p.1.drain(..from.min(p.1.len().saturating_sub(2)));
+                if never_parts {
+                    p.1.clear();
+                } else {
+                    p.1.drain(..from.min(p.1.len().saturating_sub(2)));
+                }
             }
         }
     }

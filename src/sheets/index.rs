@@ -17,8 +17,8 @@ use crate::draw::{Drawing, Words};
 use crate::kit::{Kit, KitError, SheetEntry};
 use crate::optics::{EventKind, Piece};
 use crate::paper::PaperSpec;
-use crate::plan::fmt1;
 use crate::plan::scan::grid_values;
+use crate::plan::{fmt_index, fmt1};
 use crate::scene::{Item, Rect};
 
 /// A sheet kind at a printed protractor: the index and the critical-angle
@@ -179,6 +179,9 @@ impl Kind for ProtractorKind {
     }
     fn check(&self, s: &SheetEntry, kit: &Kit) -> Result<SheetSpec, KitError> {
         check(self.kind, s, kit)
+    }
+    fn takes_colours(&self) -> bool {
+        true
     }
     fn prepare<'a>(
         &self,
@@ -416,6 +419,21 @@ impl ProtractorView {
         self.kind == SheetKind::CriticalAngle
     }
 
+    /// The same guide rays traced at another index (a colour's), graded as
+    /// the sheet's own: the same accept ranges and the same rays left
+    /// ungraded near the critical angle.
+    fn at_index(&self, index: f64) -> ProtractorPlan {
+        let mut setup = self.plan.setup.clone();
+        setup.index = index;
+        let angles: Vec<f64> = self.plan.rays.iter().map(|r| r.incidence_deg).collect();
+        let mut plan = ProtractorPlan::new(setup, self.plan.rules, &angles);
+        for (new, old) in plan.rays.iter_mut().zip(&self.plan.rays) {
+            new.tolerance = old.tolerance;
+            new.outcome_certain = old.outcome_certain;
+        }
+        plan
+    }
+
     fn letters(&self, outcome: RayOutcome) -> String {
         let v: Vec<&str> =
             self.plan.rays.iter().filter(|r| r.outcome == outcome).map(|r| r.letter.as_str()).collect();
@@ -446,16 +464,10 @@ impl SheetView for ProtractorView {
             .collect()
     }
     fn measured_at_index(&self, index: f64) -> Vec<crate::sheets::Measured> {
-        let mut setup = self.plan.setup.clone();
-        setup.index = index;
-        let angles: Vec<f64> = self.plan.rays.iter().map(|r| r.incidence_deg).collect();
-        let mut plan = ProtractorPlan::new(setup, self.plan.rules, &angles);
-        // The same answers graded, with the same accept ranges.
-        for (new, old) in plan.rays.iter_mut().zip(&self.plan.rays) {
-            new.tolerance = old.tolerance;
-            new.outcome_certain = old.outcome_certain;
-        }
-        ProtractorView { plan, ..self.clone() }.measured()
+        ProtractorView { plan: self.at_index(index), ..self.clone() }.measured()
+    }
+    fn colour_paths(&self, index: f64) -> Option<Vec<(String, Vec<crate::geom::Point>)>> {
+        Some(super::protractor_drawing::ray_paths(&self.at_index(index)))
     }
     fn class_curve(&self) -> Option<crate::sheets::ClassCurve> {
         // Snell's law at the flat face: from inside (sin r = n sin i, up to the
@@ -538,8 +550,8 @@ impl SheetView for ProtractorView {
         let crit = p.critical_deg();
         let mut v = vec![
             match s.side {
-                Side::Curved => w.fill("index_snell_curved", &[("index", &s.index.to_string())]),
-                Side::Flat => w.fill("index_snell_flat", &[("index", &s.index.to_string())]),
+                Side::Curved => w.fill("index_snell_curved", &[("index", &fmt_index(s.index))]),
+                Side::Flat => w.fill("index_snell_flat", &[("index", &fmt_index(s.index))]),
             },
             w.fill(
                 "index_critical",
@@ -699,7 +711,7 @@ impl SheetView for ProtractorView {
                     r.letter.clone(),
                     angle(r.incidence_deg),
                     with_range(r, w, false),
-                    format!("n {}", self.plan.setup.index),
+                    format!("n {}", fmt_index(self.plan.setup.index)),
                     format!("θc {}°", fmt1(self.plan.critical_deg())),
                 ]
             })
@@ -712,7 +724,7 @@ impl SheetView for ProtractorView {
             s,
             "  half-disc of radius {} mm, n = {}, light enters the {} face; critical angle {:.2}°",
             p.setup.radius_mm,
-            p.setup.index,
+            fmt_index(p.setup.index),
             p.setup.side_word(),
             p.critical_deg()
         );

@@ -78,6 +78,14 @@ fn carried(points: &[Point], dir: Vec2, reach: f64) -> Vec<Point> {
     out
 }
 
+/// Every guide ray's path as the key draws it (from where it enters to
+/// where it leaves the protractor's reach: refracted, or totally reflected),
+/// as (letter, points in the sheet frame): what a colour of the ray box
+/// draws on an `all_colours` key.
+pub fn ray_paths(plan: &ProtractorPlan) -> Vec<(String, Vec<Point>)> {
+    key_rays(plan).into_iter().map(|k| (k.letter, k.path)).collect()
+}
+
 fn key_rays(plan: &ProtractorPlan) -> Vec<KeyRay> {
     let reach = plan.setup.lead_mm;
     plan.rays
@@ -396,7 +404,7 @@ pub fn key_plot(plan: &ProtractorPlan, rect: Rect, w: &Words) -> Vec<Item> {
         return Vec::new();
     }
     let n = plan.setup.index;
-    let title = w.fill("plot_sine_title_key", &[("index", &n.to_string())]);
+    let title = w.fill("plot_sine_title_key", &[("index", &crate::plan::fmt_index(n))]);
     let (mut items, inner) = sine_frame(rect, &title, w, false);
     let map = |x: f64, y: f64| Point::new(inner.min.x + x * inner.width(), inner.min.y + y * inner.height());
     let mut placer = Placer::default();

@@ -427,7 +427,9 @@ impl SheetView for RadiusView {
         )];
         let n = self.lens.index();
         match self.thin_lens_focal_mm() {
-            Some(f) => v.push(w.fill("radius_lens_maker", &[("index", &n.to_string()), ("focal", &fmt1(f))])),
+            Some(f) => v.push(
+                w.fill("radius_lens_maker", &[("index", &crate::plan::fmt_index(n)), ("focal", &fmt1(f))]),
+            ),
             None => v.push(w.say("radius_afocal").to_string()),
         }
         v.push(w.fill("radius_accept", &[("reading", &fmt1(SAGITTA_READING_MM))]));
@@ -437,7 +439,7 @@ impl SheetView for RadiusView {
         Vec::new()
     }
     fn student_note(&self, w: &Words) -> Option<String> {
-        Some(w.fill("radius_note", &[("index", &self.lens.index().to_string())]))
+        Some(w.fill("radius_note", &[("index", &crate::plan::fmt_index(self.lens.index()))]))
     }
     fn has_gauge(&self) -> bool {
         !self.gauge_radii.is_empty()
@@ -501,7 +503,7 @@ impl SheetView for RadiusView {
                     format!("c {} mm", fmt1(f.chord_mm)),
                     format!("R {} ± {} mm", fmt1(f.radius_from_chord_mm), fmt1(f.tolerance_mm)),
                     self.thin_lens_focal_mm().map(|v| format!("f {} mm", fmt1(v))).unwrap_or_default(),
-                    format!("n {}", self.lens.index()),
+                    format!("n {}", crate::plan::fmt_index(self.lens.index())),
                 ]
             })
             .collect()

@@ -147,7 +147,7 @@ impl Lesson {
 /// Fields every kind of sheet accepts besides `kind` and `piece`, checked here.
 pub const SHARED_FIELDS: &[SheetField] = &[SheetField {
     name: "all_colours",
-    about: "Trace every guide ray in every colour of the ray box; the key gives each colour's answer and the spread (needs a material with dispersion and two colours or more). Curved-face, focal, block and prism sheets; a spectrum sheet always traces every colour; other kinds accept only false.",
+    about: "Trace every guide ray in every colour of the ray box; the key gives each colour's answer and the spread (needs a material with dispersion and two colours or more). Curved-face, focal, block, prism, index and critical-angle sheets; a spectrum sheet always traces every colour; a radius sheet (no rays) accepts only false.",
     value: FieldValue::Flag { default: false, only: None },
 }];
 

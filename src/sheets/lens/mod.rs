@@ -26,6 +26,10 @@ use crate::plan::{fmt_mm, ray_letters, to_grid, top_down};
 /// outgoing ray of a diverging piece, mm.
 pub const TRACE_BACK_MM: [f64; 2] = [25.0, 75.0];
 
+/// Room across the axis beyond a trace-back point for its label ("E2") on
+/// whichever side of the point the label goes, mm.
+pub const TRACE_BACK_LABEL_ROOM_MM: f64 = 8.0;
+
 /// Space from the printable area's left edge to the piece for converging
 /// pieces: room for the ray-box mark and the start of the guide lines, mm.
 pub const LEAD_IN_MM: f64 = 45.0;
@@ -359,7 +363,7 @@ pub fn plan_sheet_in_band(
             }
         }
         if let Some(tb) = r.trace_back {
-            y_half = y_half.max(tb[1].y.abs() + 4.0);
+            y_half = y_half.max(tb[1].y.abs() + TRACE_BACK_LABEL_ROOM_MM);
         }
     }
     let crossing_curve = crossing_curve(&outline, band.as_ref());
