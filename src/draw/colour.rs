@@ -162,7 +162,12 @@ pub fn colour_paths(d: &mut Drawing, bounds: &Rect, paths: &[ColourPath]) -> Vec
         items.extend(initial_at(d, bounds, &style.initial, &spots, u));
     }
     for (style, pts) in &ends {
-        let (a, b) = (pts[0], pts[1]);
+        // A short first stretch (the colours' few millimetres inside a lens
+        // before its exit face) has no room for initials beside it: they go
+        // on the next, longer stretch, just past the face, without leaders.
+        let first =
+            usize::from(pts.len() > 2 && pts[0].distance(pts[1]) < SHORT_FIRST * pts[1].distance(pts[2]));
+        let (a, b) = (pts[first], pts[first + 1]);
         let u = (b - a).normalized().unwrap_or(Vec2::new(1.0, 0.0));
         // Where several rays part from one point (a protractor's centre), an
         // initial right at it could belong to any of them: start it where
@@ -181,6 +186,10 @@ pub fn colour_paths(d: &mut Drawing, bounds: &Rect, paths: &[ColourPath]) -> Vec
     }
     items
 }
+
+/// A coloured path's first stretch shorter than this fraction of its second
+/// carries no initial: the initial goes on the second.
+const SHORT_FIRST: f64 = 0.5;
 
 /// How far apart, across, rays that part from one point are where their
 /// colours' initials start, mm.
