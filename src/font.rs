@@ -118,14 +118,24 @@ pub fn units_per_em(weight: Weight) -> u16 {
 /// Width of `text` set at `size_pt`, in millimetres (no kerning; characters the
 /// font lacks count as the width of the missing-glyph box).
 pub fn text_width_mm(text: &str, size_pt: f64, weight: Weight) -> f64 {
-    let upem = f64::from(units_per_em(weight));
+    units_to_mm(text_units(text, weight), size_pt, weight)
+}
+
+/// Width of `text` in font units: a sum of whole advances, exact in `f64`,
+/// so widths of pieces add up to the width of the whole (line wrapping keeps
+/// a running sum instead of measuring each trial line again).
+pub fn text_units(text: &str, weight: Weight) -> f64 {
     let (advances, by_char) = (advances(weight), char_advances(weight));
     let width = |ch: char| match by_char.get(ch as usize) {
         Some(&units) => f64::from(units),
         None => f64::from(advances.get(usize::from(glyph_id(weight, ch).unwrap_or(0))).copied().unwrap_or(0)),
     };
-    let units: f64 = text.chars().map(width).sum();
-    units / upem * size_pt * MM_PER_PT
+    text.chars().map(width).sum()
+}
+
+/// A width in font units (see [`text_units`]) set at `size_pt`, in millimetres.
+pub fn units_to_mm(units: f64, size_pt: f64, weight: Weight) -> f64 {
+    units / f64::from(units_per_em(weight)) * size_pt * MM_PER_PT
 }
 
 /// Advance widths in font units of the characters below [`TABLE_CHARS`] (a

@@ -344,7 +344,9 @@ fn sheet_warnings<'a>(
 /// set's sheets share their warnings, so the first group's stand for all).
 fn build(job: BuildJob) -> Result<Writing, Failure> {
     let BuildJob { kit, dir, force, formats, paper, templates, class, seed_flag } = job;
-    let (files, warnings) = match class.map(|c| class_plan(&kit, &paper, c)) {
+    // One memo of the page layout for the warnings, the checks and the build
+    // (see `layout::memo_scope`): the plans live, unchanged, until it closes.
+    let (files, warnings) = crate::layout::memo_scope(|| match class.map(|c| class_plan(&kit, &paper, c)) {
         None => {
             let plans = sheets::plan_lesson(&kit, &paper);
             let warnings = sheet_warnings(&plans, plans.iter(), &paper);
@@ -357,7 +359,7 @@ fn build(job: BuildJob) -> Result<Writing, Failure> {
             }
             (build_class_with(&kit, &cp, &paper, formats, &templates), warnings)
         }
-    };
+    });
     let files = files.map_err(|e| match e {
         // A number no check caught is raysheet's fault, not the kit's: exit 1.
         BuildError::Render(RenderError::NotFinite { .. }) => Failure::Other(e.to_string()),

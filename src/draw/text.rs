@@ -1,6 +1,6 @@
 //! Text helpers: items, measured boxes and word wrapping with the shipped font.
 
-use crate::font::text_width_mm;
+use crate::font::{text_units, text_width_mm, units_to_mm};
 use crate::geom::Point;
 use crate::scene::{Anchor, Item, MM_PER_PT, Rect, Weight};
 
@@ -88,16 +88,27 @@ fn units(s: &str) -> Vec<String> {
 /// Leading spaces (an indent in a template) are kept on every line.
 pub fn wrap(s: &str, size_pt: f64, weight: Weight, width_mm: f64) -> Vec<String> {
     let indent: String = s.chars().take_while(|c| *c == ' ').collect();
+    let (indent_units, space_units) = (text_units(&indent, weight), text_units(" ", weight));
     let mut lines = Vec::new();
     let mut line = indent.clone();
+    // The line's width as a running sum of whole font units: the same number
+    // as measuring the trial line itself, without measuring it again.
+    let mut line_units = indent_units;
+    let mut empty = true;
     for word in units(s) {
-        let word = word.as_str();
-        let trial = if line.trim().is_empty() { format!("{line}{word}") } else { format!("{line} {word}") };
-        if !line.trim().is_empty() && text_width_mm(&trial, size_pt, weight) > width_mm {
+        let word_units = text_units(&word, weight);
+        let trial_units = if empty { line_units + word_units } else { line_units + space_units + word_units };
+        if !empty && units_to_mm(trial_units, size_pt, weight) > width_mm {
             lines.push(std::mem::replace(&mut line, format!("{indent}{word}")));
+            line_units = indent_units + word_units;
         } else {
-            line = trial;
+            if !empty {
+                line.push(' ');
+            }
+            line.push_str(&word);
+            line_units = trial_units;
         }
+        empty = false;
     }
     if !line.trim().is_empty() {
         lines.push(line);

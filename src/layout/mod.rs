@@ -3,6 +3,8 @@
 //! scale checks, the safety caution and, on keys, the answers and the
 //! aberration plot. Never re-traces rays for answers, never writes bytes.
 
+mod memo;
+pub use memo::scope as memo_scope;
 mod calibrate;
 pub mod fit;
 mod grades;
@@ -166,6 +168,10 @@ fn compact_regions(paper: &PaperSpec, s: &crate::sheets::Setup) -> Option<Region
 /// takes a cover page, whose text block is taller (a key with every colour
 /// traced can have more to say than one page holds), and drawing pages.
 pub fn one_page_regions(p: &SheetPlan, paper: &PaperSpec, t: &Templates) -> Option<Regions> {
+    memo::one_page(p, paper, t, || one_page_regions_now(p, paper, t))
+}
+
+fn one_page_regions_now(p: &SheetPlan, paper: &PaperSpec, t: &Templates) -> Option<Regions> {
     let s = p.setup();
     let rg = regions(paper);
     let text_fits = |r: &Regions| {
@@ -283,6 +289,15 @@ pub struct SheetSet {
 /// the largest size that fits its room (see [`fit`]); text that cannot fit
 /// even at the smallest size is refused with the template file's line.
 pub fn layout(
+    kit_title: &str,
+    plans: &[SheetPlan],
+    paper: &PaperSpec,
+    t: &Templates,
+) -> Result<SheetSet, TextFitError> {
+    memo::scope(|| layout_now(kit_title, plans, paper, t))
+}
+
+fn layout_now(
     kit_title: &str,
     plans: &[SheetPlan],
     paper: &PaperSpec,

@@ -130,6 +130,13 @@ pub fn corrected(scene: Scene, printer: Option<PrinterCorrection>, margin_mm: f6
 /// than [`MAX_SHEET_PAGES`] pages, or whose sheets and keys would need more
 /// than [`MAX_PAGES`] pages (a setup tiled over thousands of pages, say).
 fn check_pages<'a>(plans: impl Iterator<Item = &'a SheetPlan>, paper: &PaperSpec) -> Result<(), BuildError> {
+    layout::memo_scope(|| check_pages_now(plans, paper))
+}
+
+fn check_pages_now<'a>(
+    plans: impl Iterator<Item = &'a SheetPlan>,
+    paper: &PaperSpec,
+) -> Result<(), BuildError> {
     let mut total: usize = 0;
     for p in plans {
         let n = layout::pages_needed(p, paper).saturating_add(usize::from(p.view().has_gauge()));

@@ -119,6 +119,13 @@ pub fn sheet_pages<'a>(
     plans: impl Iterator<Item = &'a SheetPlan>,
     paper: &PaperSpec,
 ) -> std::collections::BTreeMap<usize, (usize, String)> {
+    layout::memo_scope(|| sheet_pages_now(plans, paper))
+}
+
+fn sheet_pages_now<'a>(
+    plans: impl Iterator<Item = &'a SheetPlan>,
+    paper: &PaperSpec,
+) -> std::collections::BTreeMap<usize, (usize, String)> {
     let mut worst: std::collections::BTreeMap<usize, (usize, &SheetPlan)> = std::collections::BTreeMap::new();
     for p in plans {
         let n = layout::pages_needed(p, paper);
