@@ -15,11 +15,13 @@
 use std::cell::RefCell;
 
 use super::Regions;
-use crate::paper::{Orientation, PaperSpec};
+use crate::paper::PaperSpec;
 use crate::sheets::SheetPlan;
 
-/// (plan address, templates address, page width and height bits, margin bits, orientation).
-type Key = (usize, usize, u64, u64, u64, u8);
+/// (plan address, templates address, page width and height bits, margin
+/// bits): the regions depend on the paper only through its turned size and
+/// margin, so `auto` and the orientation it resolves to share an entry.
+type Key = (usize, usize, u64, u64, u64);
 
 /// The answers remembered in the open scope (`None`: no scope is open).
 type Entries = Option<Vec<(Key, Option<Regions>)>>;
@@ -54,18 +56,12 @@ pub fn one_page(
     compute: impl FnOnce() -> Option<Regions>,
 ) -> Option<Regions> {
     let (w, h) = paper.page_mm();
-    let turn = match paper.orientation {
-        Orientation::Portrait => 0,
-        Orientation::Landscape => 1,
-        Orientation::Auto => 2,
-    };
     let key: Key = (
         std::ptr::from_ref(p) as usize,
         std::ptr::from_ref(t) as usize,
         w.to_bits(),
         h.to_bits(),
         paper.margin_mm.to_bits(),
-        turn,
     );
     let hit = MEMO.with(|m| m.borrow().as_ref().map(|v| v.iter().find(|e| e.0 == key).map(|e| e.1)));
     match hit {

@@ -262,7 +262,12 @@ pub fn paper_for(p: &SheetPlan, paper: &PaperSpec) -> PaperSpec {
         tiling_for(s.length(), s.height(), &regions(on).drawing).pages() == 1
     };
     let rank = |on: &PaperSpec| (pages_on(p, on), !usual(on));
-    if rank(&portrait) < rank(&landscape) { portrait } else { paper.clone() }
+    let wide = rank(&landscape);
+    // One page in the usual layout: portrait can at best tie, and a tie stays landscape.
+    if wide == (1, false) {
+        return paper.clone();
+    }
+    if rank(&portrait) < wide { portrait } else { paper.clone() }
 }
 
 /// Pages on `paper` turned as it is: one, or the cover and the drawing pages.
