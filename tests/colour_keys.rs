@@ -169,6 +169,37 @@ fn index_sheet_per_colour_is_snells_law_at_the_centre() {
     }
 }
 
+/// A ray between the colours' critical angles: at 42° in Beadie's PMMA red
+/// leaves (θc = asin(1/1.49007) = 42.16°) and blue is totally reflected
+/// (θc = asin(1/1.49837) = 41.87°; N_RED, N_BLUE above), and the key says so.
+#[test]
+fn a_ray_between_the_colours_critical_angles_is_named_on_the_key() {
+    let kit = format!(
+        "{HEAD}[[pieces]]\nid = \"hd-40\"\nmaterial = \"pmma\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = 40 }}\nthickness_mm = 40\nheight_mm = 80\n[[sheets]]\nkind = \"index\"\npiece = \"hd-40\"\nangles_deg = [20, 42]\nall_colours = true\n"
+    );
+    let (red, blue) = ((1.0 / N_RED).asin().to_degrees(), (1.0 / N_BLUE).asin().to_degrees());
+    assert!(blue < 42.0 && 42.0 < red, "{blue} {red}");
+    let lesson = Lesson::from_toml(&kit, "colours.toml").expect("valid");
+    let plans = plan_lesson(&lesson, &a4());
+    let set = plans[0].colours.as_ref().expect("colours traced");
+    let leaves = |name: &str| {
+        let run = set.runs.iter().find(|r| r.light.name == name).expect("the colour");
+        run.leaves.iter().find(|(l, _)| l == "B").map(|(_, x)| *x).expect("ray B")
+    };
+    assert!(leaves("red") && !leaves("blue"));
+    let words = raysheet::layout::Templates::shipped().expect("shipped words").words;
+    let lines = plans[0].key_lines(&words).join("\n");
+    let line =
+        lines.lines().find(|l| l.starts_with("Ray B is not the same")).unwrap_or_else(|| panic!("{lines}"));
+    let (out, back) = line.split_once("totally reflected in").expect("both parts");
+    assert!(
+        out.contains("red") && !out.contains("blue") && back.contains("blue") && !back.contains("red"),
+        "{line}"
+    );
+    // Ray A at 20° leaves in every colour: no such line for it.
+    assert!(!lines.contains("Ray A is not the same"), "{lines}");
+}
+
 #[test]
 fn spectrum_deviation_per_colour_is_snell_at_both_sides() {
     let kit = format!(

@@ -39,6 +39,9 @@ pub struct ColourRun {
     pub paths: Vec<(String, Vec<Point>)>,
     /// Every graded answer in this colour, as [`SheetView::measured`] gives it.
     pub measured: Vec<Measured>,
+    /// At a protractor: each ray and whether it leaves in this colour (see
+    /// [`SheetView::leaves_at_index`]).
+    pub leaves: Vec<(String, bool)>,
 }
 
 /// Every colour's traces on a sheet, in the ray box's order.
@@ -83,6 +86,7 @@ pub fn colour_set(view: &dyn SheetView, lights: &[Light]) -> Option<ColourSet> {
             style,
             paths,
             measured: view.measured_at_index(light.index),
+            leaves: view.leaves_at_index(light.index),
         });
     }
     part_paths(&mut runs);
@@ -201,7 +205,7 @@ impl ColourSet {
     pub fn key_lines(&self, reference: &[Measured], w: &Words) -> Vec<String> {
         let mut lines = Vec::new();
         let spreads = self.spreads(reference);
-        let Some(first) = spreads.first() else { return lines };
+        let Some(first) = spreads.first() else { return self.split_outcomes(w) };
         let initials: Vec<&str> = self.runs.iter().map(|r| r.style.initial.as_str()).collect();
         // Rays with the same values (a pair either side of the axis) share an entry.
         let mut rays: Vec<(Vec<String>, String)> = Vec::new();
@@ -264,6 +268,42 @@ impl ColourSet {
             }
         };
         lines.push(line);
+        lines.extend(self.split_outcomes(w));
+        lines
+    }
+
+    /// A line for each ray that leaves in some colours and is totally
+    /// reflected in others (its angle lies between their critical angles).
+    fn split_outcomes(&self, w: &Words) -> Vec<String> {
+        let Some(first) = self.runs.first() else { return Vec::new() };
+        let mut lines = Vec::new();
+        for (k, (letter, _)) in first.leaves.iter().enumerate() {
+            let of = |leaves: bool| -> Vec<&str> {
+                self.runs
+                    .iter()
+                    .filter(|r| r.leaves.get(k).is_some_and(|(l, x)| l == letter && *x == leaves))
+                    .map(|r| r.light.name.as_str())
+                    .collect()
+            };
+            let (out, back) = (of(true), of(false));
+            if out.is_empty() || back.is_empty() {
+                continue;
+            }
+            let critical: Vec<String> = self
+                .runs
+                .iter()
+                .map(|r| format!("{} {}°", r.style.initial, fmt1((1.0 / r.light.index).asin().to_degrees())))
+                .collect();
+            lines.push(w.fill(
+                "colour_outcome_split",
+                &[
+                    ("ray", letter),
+                    ("leaving", &out.join(", ")),
+                    ("reflected", &back.join(", ")),
+                    ("critical", &critical.join(", ")),
+                ],
+            ));
+        }
         lines
     }
 

@@ -469,6 +469,14 @@ impl SheetView for ProtractorView {
     fn colour_paths(&self, index: f64) -> Option<Vec<(String, Vec<crate::geom::Point>)>> {
         Some(super::protractor_drawing::ray_paths(&self.at_index(index)))
     }
+    fn leaves_at_index(&self, index: f64) -> Vec<(String, bool)> {
+        self.at_index(index)
+            .rays
+            .iter()
+            .filter(|r| r.outcome != RayOutcome::OffPath)
+            .map(|r| (r.letter.clone(), r.outcome == RayOutcome::Refracts))
+            .collect()
+    }
     fn class_curve(&self) -> Option<crate::sheets::ClassCurve> {
         // Snell's law at the flat face: from inside (sin r = n sin i, up to the
         // critical angle) or from air (sin r = sin i / n).

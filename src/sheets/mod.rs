@@ -378,6 +378,14 @@ pub trait SheetView {
     /// The exact curve the class's measurements of this sheet are plotted
     /// against when marking, if the sheet has one.
     fn class_curve(&self) -> Option<ClassCurve>;
+    /// At a flat face read at a protractor: each guide ray traced at `index`
+    /// (a colour's) as (letter, whether it leaves rather than being totally
+    /// reflected), for the rays that do one or the other; empty for other
+    /// kinds. Near the critical angle one colour may leave while another is
+    /// totally reflected, and the key says so.
+    fn leaves_at_index(&self, _index: f64) -> Vec<(String, bool)> {
+        Vec::new()
+    }
     /// Every guide ray traced again with the piece's index replaced by
     /// `index` (a colour's), as (letter, path in the sheet frame as the key
     /// draws it: from the ray box to its drawn end); `None` when the kind
