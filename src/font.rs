@@ -32,16 +32,22 @@ pub fn font_bytes(weight: Weight) -> &'static [u8] {
 /// The PostScript-style family name the SVG renderer asks for.
 pub const FAMILY: &str = "DejaVu Sans";
 
+/// The value kept for `weight` in one of a pair of once-set cells (regular,
+/// bold), made by `init` on first use.
+fn per_weight<T>(weight: Weight, cells: [&'static OnceLock<T>; 2], init: impl FnOnce() -> T) -> &'static T {
+    let cell = match weight {
+        Weight::Regular => cells[0],
+        Weight::Bold => cells[1],
+    };
+    cell.get_or_init(init)
+}
+
 /// The parsed face. The shipped files are known-good, so a parse failure is a
 /// build defect and is reported by the `shipped_fonts_parse` test.
 pub fn face(weight: Weight) -> &'static ttf_parser::Face<'static> {
     static R: OnceLock<ttf_parser::Face<'static>> = OnceLock::new();
     static B: OnceLock<ttf_parser::Face<'static>> = OnceLock::new();
-    let cell = match weight {
-        Weight::Regular => &R,
-        Weight::Bold => &B,
-    };
-    cell.get_or_init(|| {
+    per_weight(weight, [&R, &B], || {
         #[expect(clippy::expect_used, reason = "the font is compiled in and checked by a test")]
         ttf_parser::Face::parse(font_bytes(weight), 0).expect("shipped font parses")
     })
@@ -55,15 +61,12 @@ const TABLE_CHARS: u32 = 0x2400;
 fn table(weight: Weight) -> &'static [u16] {
     static R: OnceLock<Vec<u16>> = OnceLock::new();
     static B: OnceLock<Vec<u16>> = OnceLock::new();
-    let cell = match weight {
-        Weight::Regular => &R,
-        Weight::Bold => &B,
-    };
-    cell.get_or_init(|| {
+    per_weight(weight, [&R, &B], || {
         (0..TABLE_CHARS)
             .map(|c| char::from_u32(c).and_then(|ch| face(weight).glyph_index(ch)).map_or(0, |g| g.0))
             .collect()
     })
+    .as_slice()
 }
 
 /// Glyph id of `ch` in the face, `None` if the font cannot show it.
@@ -93,16 +96,13 @@ pub fn unsupported_chars(text: &str) -> Vec<char> {
 fn advances(weight: Weight) -> &'static [u16] {
     static R: OnceLock<Vec<u16>> = OnceLock::new();
     static B: OnceLock<Vec<u16>> = OnceLock::new();
-    let cell = match weight {
-        Weight::Regular => &R,
-        Weight::Bold => &B,
-    };
-    cell.get_or_init(|| {
+    per_weight(weight, [&R, &B], || {
         let face = face(weight);
         (0..face.number_of_glyphs())
             .map(|g| face.glyph_hor_advance(ttf_parser::GlyphId(g)).unwrap_or(0))
             .collect()
     })
+    .as_slice()
 }
 
 /// Advance width of glyph `gid` in font units (0 for a glyph the face lacks).
@@ -144,11 +144,8 @@ pub fn units_to_mm(units: f64, size_pt: f64, weight: Weight) -> f64 {
 fn char_advances(weight: Weight) -> &'static [u16] {
     static R: OnceLock<Vec<u16>> = OnceLock::new();
     static B: OnceLock<Vec<u16>> = OnceLock::new();
-    let cell = match weight {
-        Weight::Regular => &R,
-        Weight::Bold => &B,
-    };
-    cell.get_or_init(|| table(weight).iter().map(|&gid| advance_units(weight, gid)).collect())
+    per_weight(weight, [&R, &B], || table(weight).iter().map(|&gid| advance_units(weight, gid)).collect())
+        .as_slice()
 }
 
 /// The first character of `text` that prints as nothing or reorders what
