@@ -31,21 +31,27 @@ thread_local! {
 }
 
 /// Runs `f` with a fresh memo on this thread (nested scopes share the outer one).
+/// The memo is dropped when the outermost scope ends, also by a panic that a
+/// caller catches (a property test's case), so no address outlives its plan.
 pub fn scope<R>(f: impl FnOnce() -> R) -> R {
-    let opened = MEMO.with(|m| {
-        let mut m = m.borrow_mut();
-        if m.is_none() {
-            *m = Some(Vec::new());
-            true
-        } else {
-            false
+    /// Closes the memo when dropped, if this scope opened it.
+    struct Close(bool);
+    impl Drop for Close {
+        fn drop(&mut self) {
+            if self.0 {
+                MEMO.with(|m| *m.borrow_mut() = None);
+            }
         }
-    });
-    let out = f();
-    if opened {
-        MEMO.with(|m| *m.borrow_mut() = None);
     }
-    out
+    let _close = Close(MEMO.with(|m| {
+        let mut m = m.borrow_mut();
+        let opens = m.is_none();
+        if opens {
+            *m = Some(Vec::new());
+        }
+        opens
+    }));
+    f()
 }
 
 /// The remembered answer for `(p, paper, t)` inside a scope, else `compute()`.
@@ -76,5 +82,29 @@ pub fn one_page(
             r
         }
         None => compute(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn open() -> bool {
+        MEMO.with(|m| m.borrow().is_some())
+    }
+
+    #[test]
+    fn a_scope_closes_its_memo_even_when_its_work_panics() {
+        assert!(!open());
+        scope(|| {
+            assert!(open());
+            scope(|| assert!(open()));
+            // The inner scope did not close the outer one's memo.
+            assert!(open());
+        });
+        assert!(!open());
+        let caught = std::panic::catch_unwind(|| scope(|| panic!("a failing case")));
+        assert!(caught.is_err());
+        assert!(!open(), "a panic left the memo open");
     }
 }
