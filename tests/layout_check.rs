@@ -924,3 +924,15 @@ fn trace_back_label_cut_by_the_window() {
     assert!(text.contains("radius_mm = 75.1") && text.contains("spacing_mm = 10.2"), "{text}");
     lays_out_cleanly(&text);
 }
+
+/// Regression: a 49.5 mm half-disc's critical-angle key with every colour
+/// traced: ray B refracts at 76.7°, where the colours part by degrees, and
+/// its label, placed beside the white ray before the colours were drawn, was
+/// crossed by the blue path (found by the proptest above). The colours'
+/// paths now keep the kind's labels off before those are placed.
+#[test]
+fn colour_path_through_a_protractor_label() {
+    let text = random_kit(9, 0.738_044, 0.0, 0.809_249, 1.501_751, 1, "A4");
+    assert!(text.contains("kind = \"critical-angle\"") && text.contains("radius_mm = 49.5"), "{text}");
+    lays_out_cleanly(&text);
+}

@@ -134,6 +134,18 @@ pub struct ColourPath<'a> {
     pub points: Vec<Point>,
 }
 
+/// Marks the parts of `paths` inside `bounds` as taken for labels, so labels
+/// placed before the paths are drawn (the kind's own key labels) keep off
+/// them too: near the critical angle the colours of one ray part by
+/// degrees, far from the white ray the kind's labels sit beside.
+pub fn keep_labels_off(d: &mut Drawing, bounds: &Rect, paths: &[ColourPath]) {
+    for p in paths {
+        if let Some(shown) = inside(&p.points, bounds) {
+            d.placer.block_soft_path(&shown);
+        }
+    }
+}
+
 /// Draws coloured paths on a key and puts each colour's initial near both ends
 /// of its ray (the ends inside `bounds`), where the placer finds room. The
 /// paths keep other labels off.

@@ -10,7 +10,7 @@
 use serde_json::{Value, json};
 
 use super::{Measured, SheetPlan, SheetView, Want};
-use crate::draw::colour::{ColourPath, ColourStyle, colour_paths, colour_styles, legend};
+use crate::draw::colour::{ColourPath, ColourStyle, colour_paths, colour_styles, keep_labels_off, legend};
 use crate::draw::{Drawing, Words};
 use crate::geom::Point;
 use crate::plan::fmt_index;
@@ -168,16 +168,19 @@ impl ColourSet {
         out
     }
 
-    /// The coloured paths on the key, with each colour's initial at both ends.
-    pub fn key_items(&self, d: &mut Drawing, bounds: &Rect) -> Vec<Item> {
-        let paths: Vec<ColourPath> = self
-            .runs
+    /// Every colour's paths, as the key draws them.
+    fn paths(&self) -> Vec<ColourPath<'_>> {
+        self.runs
             .iter()
             .flat_map(|r| {
                 r.paths.iter().map(move |(_, pts)| ColourPath { style: &r.style, points: pts.clone() })
             })
-            .collect();
-        colour_paths(d, bounds, &paths)
+            .collect()
+    }
+
+    /// The coloured paths on the key, with each colour's initial at both ends.
+    pub fn key_items(&self, d: &mut Drawing, bounds: &Rect) -> Vec<Item> {
+        colour_paths(d, bounds, &self.paths())
     }
 
     /// Each colour as the legend and the key's text name it.
@@ -354,6 +357,11 @@ impl SheetPlan {
     /// name, wavelength, index) and the paper a built-in material's index
     /// comes from.
     pub fn key(&self, base: &mut Drawing, bounds: Rect, w: &Words) -> Vec<Item> {
+        // The colours' paths are drawn after the kind's key, but its labels
+        // must keep off them as well as off the white rays.
+        if let Some(c) = &self.colours {
+            keep_labels_off(base, &bounds, &c.paths());
+        }
         let mut items = self.view().key(base, bounds, w);
         let mut rows: Vec<(Option<&ColourStyle>, String)> = Vec::new();
         if let Some(c) = &self.colours {
