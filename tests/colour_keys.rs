@@ -41,6 +41,14 @@ fn answers(kit: &str) -> Value {
     serde_json::from_str(&raysheet::output::answers::to_json("t", None, &plans)).expect("json")
 }
 
+/// The kit with a 40 mm PMMA half-disc (`hd-40`) and one sheet of it:
+/// `sheet` is the sheet table's lines.
+fn half_disc_40(sheet: &str) -> String {
+    format!(
+        "{HEAD}[[pieces]]\nid = \"hd-40\"\nmaterial = \"pmma\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = 40 }}\nthickness_mm = 40\nheight_mm = 80\n[[sheets]]\n{sheet}"
+    )
+}
+
 fn colour<'a>(sheet: &'a Value, name: &str) -> &'a Value {
     sheet["colours"].as_array().expect("colours").iter().find(|c| c["colour"] == name).expect("the colour")
 }
@@ -57,8 +65,8 @@ fn value(c: &Value, ray: &str, quantity: &str) -> f64 {
 
 #[test]
 fn half_disc_crossing_per_colour_is_the_closed_form() {
-    let kit = format!(
-        "{HEAD}[[pieces]]\nid = \"hd-40\"\nmaterial = \"pmma\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = 40 }}\nthickness_mm = 40\nheight_mm = 80\n[[sheets]]\nkind = \"curved-face\"\npiece = \"hd-40\"\nheights_mm = [10, -10]\nall_colours = true\n"
+    let kit = half_disc_40(
+        "kind = \"curved-face\"\npiece = \"hd-40\"\nheights_mm = [10, -10]\nall_colours = true\n",
     );
     let a = answers(&kit);
     let sheet = &a["sheets"][0];
@@ -135,9 +143,8 @@ fn thin_lens_focus_per_colour_is_the_lens_makers() {
 /// reflection does not disperse, so it gets no coloured path.
 #[test]
 fn index_sheet_per_colour_is_snells_law_at_the_centre() {
-    let kit = format!(
-        "{HEAD}[[pieces]]\nid = \"hd-40\"\nmaterial = \"pmma\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = 40 }}\nthickness_mm = 40\nheight_mm = 80\n[[sheets]]\nkind = \"index\"\npiece = \"hd-40\"\nangles_deg = [15, 30, 55]\nall_colours = true\n"
-    );
+    let kit =
+        half_disc_40("kind = \"index\"\npiece = \"hd-40\"\nangles_deg = [15, 30, 55]\nall_colours = true\n");
     let a = answers(&kit);
     let sheet = &a["sheets"][0];
     let mut r_of = BTreeMap::new();
@@ -174,9 +181,8 @@ fn index_sheet_per_colour_is_snells_law_at_the_centre() {
 /// (θc = asin(1/1.49837) = 41.87°; N_RED, N_BLUE above), and the key says so.
 #[test]
 fn a_ray_between_the_colours_critical_angles_is_named_on_the_key() {
-    let kit = format!(
-        "{HEAD}[[pieces]]\nid = \"hd-40\"\nmaterial = \"pmma\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = 40 }}\nthickness_mm = 40\nheight_mm = 80\n[[sheets]]\nkind = \"index\"\npiece = \"hd-40\"\nangles_deg = [20, 42]\nall_colours = true\n"
-    );
+    let kit =
+        half_disc_40("kind = \"index\"\npiece = \"hd-40\"\nangles_deg = [20, 42]\nall_colours = true\n");
     let (red, blue) = ((1.0 / N_RED).asin().to_degrees(), (1.0 / N_BLUE).asin().to_degrees());
     assert!(blue < 42.0 && 42.0 < red, "{blue} {red}");
     let lesson = Lesson::from_toml(&kit, "colours.toml").expect("valid");
@@ -262,8 +268,8 @@ fn spectrum_screen_goes_as_far_as_two_ray_widths_need_on_big_paper() {
 }
 
 fn key_kit() -> Lesson {
-    let kit = format!(
-        "{HEAD}[[pieces]]\nid = \"hd-40\"\nmaterial = \"pmma\"\nfront = \"flat\"\nback = {{ curve = \"convex\", radius_mm = 40 }}\nthickness_mm = 40\nheight_mm = 80\n[[sheets]]\nkind = \"curved-face\"\npiece = \"hd-40\"\nheights_mm = [10, -10]\nall_colours = true\n"
+    let kit = half_disc_40(
+        "kind = \"curved-face\"\npiece = \"hd-40\"\nheights_mm = [10, -10]\nall_colours = true\n",
     );
     Lesson::from_toml(&kit, "colours.toml").unwrap_or_else(|e| panic!("{e}"))
 }
